@@ -1,0 +1,21 @@
+//! tacit: an offline solver for implicit design equations.
+//!
+//! The core is pure Rust with no JavaScript types and no I/O:
+//! - [`driver`]: the one driver loop ([`solve`], the ask–tell [`Stepper`]);
+//! - [`methods`]: the scalar methods as small state machines;
+//! - [`outcome`]: the result type and honest statuses;
+//! - [`tolerances`]: tolerances, budget and bounds.
+//!
+//! The wasm32 binding layer lives in `bindings` and is compiled only for wasm32.
+
+pub mod driver;
+pub mod error;
+pub mod methods;
+pub mod outcome;
+mod stepper_record;
+pub mod tolerances;
+
+pub use driver::{solve, MethodKind, Options, Start, Stepper};
+pub use error::InputError;
+pub use outcome::{HistoryRow, Solution, Status, StepKind};
+pub use tolerances::{Bounds, Tolerances};

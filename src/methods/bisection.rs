@@ -1,0 +1,146 @@
+//! Bisection.
+
+use crate::driver::{Ask, Context, Finish, ScalarMethod};
+use crate::outcome::{Status, StepKind};
+
+/// Bisection: halve a bracket [a, b] with f(a)·f(b) < 0, keeping the half whose ends
+/// still differ in sign.
+///
+/// - Order of convergence: linear, the bracket halves with every evaluation.
+/// - Evaluations: two for the ends, then one per iteration.
+/// - It cannot diverge; it stops when the bracket is within twice the step tolerance or
+///   no float lies strictly between its ends. The root returned is the end with the
+///   smaller |f|.
+/// - Reference: Burden & Faires, *Numerical Analysis*, Algorithm 2.1.
+#[derive(Debug, Clone)]
+pub struct Bisection {
+    a: f64,
+    fa: f64,
+    b: f64,
+    fb: f64,
+    phase: u8,
+    iterations: usize,
+}
+
+impl Bisection {
+    pub fn new(a: f64, b: f64) -> Bisection {
+        let (a, b) = if a <= b { (a, b) } else { (b, a) };
+        Bisection {
+            a,
+            fa: f64::NAN,
+            b,
+            fb: f64::NAN,
+            phase: 0,
+            iterations: 0,
+        }
+    }
+
+    /// Starts from a bracket whose end values are already known (no re-evaluation).
+    pub fn from_bracket(a: f64, fa: f64, b: f64, fb: f64) -> Bisection {
+        let (a, fa, b, fb) = if a <= b { (a, fa, b, fb) } else { (b, fb, a, fa) };
+        Bisection {
+            a,
+            fa,
+            b,
+            fb,
+            phase: 2,
+            iterations: 0,
+        }
+    }
+
+    fn best(&self) -> (f64, f64) {
+        if self.fa.abs() <= self.fb.abs() {
+            (self.a, self.fa)
+        } else {
+            (self.b, self.fb)
+        }
+    }
+
+    fn next(&mut self, ctx: &Context) -> Ask {
+        if self.fa == 0.0 {
+            return Finish::at(Status::ExactZero, self.a, self.fa);
+        }
+        if self.fb == 0.0 {
+            return Finish::at(Status::ExactZero, self.b, self.fb);
+        }
+        if !self.fa.is_finite() || !self.fb.is_finite() {
+            let (x, fx) = if self.fa.is_finite() {
+                (self.a, self.fa)
+            } else {
+                (self.b, self.fb)
+            };
+            return Finish::at(Status::NonFinite, x, fx);
+        }
+        if self.fa.signum() == self.fb.signum() {
+            let (x, fx) = self.best();
+            return Finish::at(Status::NoSignChange, x, fx);
+        }
+        let (x, fx) = self.best();
+        if fx.abs() <= ctx.tol.f_abs {
+            return Finish::at(Status::ConvergedResidual, x, fx);
+        }
+        let m = self.a + (self.b - self.a) / 2.0;
+        if m <= self.a || m >= self.b || self.b - self.a <= 2.0 * ctx.tol.x_tol(m) {
+            return Finish::at(Status::ConvergedStep, x, fx);
+        }
+        Ask::Eval(m, StepKind::Bisection)
+    }
+}
+
+impl ScalarMethod for Bisection {
+    fn step(&mut self, told: Option<(f64, f64)>, ctx: &Context) -> Ask {
+        match (self.phase, told) {
+            (0, None) => {
+                self.phase = 1;
+                Ask::Eval(self.a, StepKind::Initial)
+            }
+            (1, Some((x, fx))) => {
+                self.a = x;
+                self.fa = fx;
+                self.phase = 2;
+                if fx == 0.0 {
+                    return Finish::at(Status::ExactZero, x, fx);
+                }
+                self.phase = 3;
+                Ask::Eval(self.b, StepKind::Initial)
+            }
+            (3, Some((x, fx))) => {
+                self.b = x;
+                self.fb = fx;
+                self.phase = 4;
+                self.next(ctx)
+            }
+            (2, None) => {
+                self.phase = 4;
+                self.next(ctx)
+            }
+            (_, Some((x, fx))) => {
+                self.iterations += 1;
+                if fx.is_nan() {
+                    return Finish::at(Status::NonFinite, x, fx);
+                }
+                if fx.signum() == self.fa.signum() {
+                    self.a = x;
+                    self.fa = fx;
+                } else {
+                    self.b = x;
+                    self.fb = fx;
+                }
+                self.next(ctx)
+            }
+            (_, None) => self.next(ctx),
+        }
+    }
+
+    fn bracket(&self) -> Option<(f64, f64)> {
+        if self.fa.is_finite() && self.fb.is_finite() && self.fa.signum() != self.fb.signum() {
+            Some((self.a, self.b))
+        } else {
+            None
+        }
+    }
+
+    fn iterations(&self) -> usize {
+        self.iterations
+    }
+}
