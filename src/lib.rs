@@ -8,12 +8,20 @@
 //!
 //! The wasm32 binding layer lives in `bindings` and is compiled only for wasm32.
 
+pub mod api;
+#[cfg(target_arch = "wasm32")]
+mod bindings;
+pub mod broyden;
 pub mod driver;
+pub mod equations;
 pub mod error;
 pub mod methods;
 pub mod outcome;
+pub mod roots_in_range;
 mod stepper_record;
+pub mod templates;
 pub mod tolerances;
+pub mod units;
 
 pub use driver::{solve, MethodKind, Options, Start, Stepper};
 pub use error::InputError;

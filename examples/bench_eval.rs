@@ -1,0 +1,194 @@
+//! Evaluations per second: compiled programs against meval's `eval_with_context`, side
+//! by side in one run, on five expressions of engineering practice.
+//!
+//! `cargo run --release --example bench_eval`
+//!
+//! Columns:
+//! - `meval vec`: `Expr::eval_with_context((&vars, &functions))` with the variables in a
+//!   `Vec<(&str, f64)>` (meval's own provider for vectors), the changing one updated in place;
+//! - `meval map`: the same with the variables in a `meval::Context` (an FNV hash map),
+//!   the changing one set with `Context::var`;
+//! - `program`: the compiled program with every variable in a slot (same work as meval);
+//! - `residual`: `EquationSet::residual_fn`, the form a solve uses: the givens folded in.
+//!
+//! The ratio is `program` over the faster meval column. Every value is checked to be
+//! bit-identical to meval's before timing.
+
+use std::hint::black_box;
+use std::time::{Duration, Instant};
+
+use tacit::equations::functions::reference_context;
+use tacit::equations::{EquationSet, Expression};
+
+struct Case {
+    name: &'static str,
+    text: String,
+    /// Variable values; the first is the one that changes between evaluations.
+    values: Vec<(String, f64)>,
+}
+
+fn cases() -> Vec<Case> {
+    let v = |pairs: &[(&str, f64)]| -> Vec<(String, f64)> {
+        pairs.iter().map(|&(n, x)| (n.to_string(), x)).collect()
+    };
+    let mut npv_terms = vec!["c0".to_string()];
+    let mut npv_values = vec![("r".to_string(), 0.07), ("c0".to_string(), -1000.0)];
+    for k in 1..30 {
+        npv_terms.push(format!("c{k}/(1 + r)^{k}"));
+        npv_values.push((format!("c{k}"), 80.0 + k as f64));
+    }
+    vec![
+        Case {
+            name: "Colebrook residual",
+            text: "1/sqrt(f) + 2*log10(eps/(3.7*D) + 2.51/(Re*sqrt(f)))".into(),
+            values: v(&[("f", 0.02), ("eps", 4.6e-5), ("D", 0.3), ("Re", 2.0e5)]),
+        },
+        Case {
+            name: "Manning, trapezoidal channel",
+            text: "(1/n)*((b + z*y)*y)*(((b + z*y)*y)/(b + 2*y*sqrt(1 + z^2)))^(2/3)*sqrt(S) - Q"
+                .into(),
+            values: v(&[
+                ("y", 1.2),
+                ("n", 0.013),
+                ("b", 3.0),
+                ("z", 2.0),
+                ("S", 0.0005),
+                ("Q", 12.0),
+            ]),
+        },
+        Case {
+            name: "isentropic area-Mach",
+            text: "(1/M)*((2/(k + 1))*(1 + (k - 1)/2*M^2))^((k + 1)/(2*(k - 1))) - AR".into(),
+            values: v(&[("M", 2.2), ("k", 1.4), ("AR", 2.0)]),
+        },
+        Case {
+            name: "secant formula, column",
+            text: "P/A*(1 + e*c/r^2*sec(L/(2*r)*sqrt(P/(E*A)))) - smax".into(),
+            values: v(&[
+                ("P", 2.0e5),
+                ("A", 4.0e-3),
+                ("e", 0.01),
+                ("c", 0.1),
+                ("r", 0.07),
+                ("L", 5.0),
+                ("E", 2.0e11),
+                ("smax", 2.5e8),
+            ]),
+        },
+        Case {
+            name: "NPV, 30 cash flows (sum)",
+            text: npv_terms.join(" + "),
+            values: npv_values,
+        },
+    ]
+}
+
+/// Evaluations per second of `f`, run for about `budget`.
+fn rate(budget: Duration, mut f: impl FnMut(usize) -> f64) -> f64 {
+    let mut n = 1000usize;
+    loop {
+        let start = Instant::now();
+        let mut acc = 0.0;
+        for i in 0..n {
+            acc += f(i);
+        }
+        black_box(acc);
+        let t = start.elapsed();
+        if t >= budget {
+            return n as f64 / t.as_secs_f64();
+        }
+        n *= 4;
+    }
+}
+
+/// The changing value at step i: tiny relative changes, so nothing can be hoisted.
+fn wiggle(base: f64, i: usize) -> f64 {
+    base * (1.0 + (i % 1024) as f64 * 1e-12)
+}
+
+fn main() {
+    let budget = Duration::from_millis(400);
+    let functions = reference_context();
+    println!(
+        "{:<30} {:>12} {:>12} {:>12} {:>12} {:>8} {:>8}",
+        "expression", "meval vec/s", "meval map/s", "program/s", "residual/s", "ratio", "resid."
+    );
+    let mut worst = f64::INFINITY;
+    for case in cases() {
+        let expr = Expression::parse(&case.text).expect("benchmark text parses");
+        let names: Vec<&str> = case.values.iter().map(|(n, _)| n.as_str()).collect();
+        let program = expr.compile(&names).expect("compiles");
+        let mut slots: Vec<f64> = case.values.iter().map(|(_, x)| *x).collect();
+        let mut stack = vec![0.0; program.stack_size()];
+        let mut vars: Vec<(&str, f64)> = case.values.iter().map(|(n, x)| (n.as_str(), *x)).collect();
+        let mut map = reference_context();
+        for (n, x) in &case.values {
+            map.var(n.clone(), *x);
+        }
+        let set = EquationSet::parse_declaring(&case.text, &names).expect("set parses");
+        let (unknown, base) = (case.values[0].0.clone(), case.values[0].1);
+        let mut residual = set
+            .residual_fn(&case.values[1..], &unknown)
+            .expect("residual compiles");
+
+        // Check before timing: the same bits as meval.
+        for i in [0usize, 7, 1000] {
+            let x = wiggle(base, i);
+            vars[0].1 = x;
+            slots[0] = x;
+            let m = expr.meval().eval_with_context((&vars, &functions)).unwrap();
+            let p = program.eval_with(&slots, &mut stack);
+            let r = residual(x);
+            assert_eq!(m.to_bits(), p.to_bits(), "{}: program differs", case.name);
+            assert_eq!(m.to_bits(), r.to_bits(), "{}: residual differs", case.name);
+        }
+
+        let meval_vec = rate(budget, |i| {
+            vars[0].1 = wiggle(base, i);
+            expr.meval()
+                .eval_with_context((&vars, &functions))
+                .unwrap_or(f64::NAN)
+        });
+        let meval_map = rate(budget, |i| {
+            map.var(unknown.as_str(), wiggle(base, i));
+            expr.meval().eval_with_context(&map).unwrap_or(f64::NAN)
+        });
+        let compiled = rate(budget, |i| {
+            slots[0] = wiggle(base, i);
+            program.eval_with(&slots, &mut stack)
+        });
+        let folded = rate(budget, |i| residual(wiggle(base, i)));
+        let meval_best = meval_vec.max(meval_map);
+        let ratio = compiled / meval_best;
+        worst = worst.min(ratio);
+        println!(
+            "{:<30} {:>12.3e} {:>12.3e} {:>12.3e} {:>12.3e} {:>7.1}x {:>7.1}x",
+            case.name,
+            meval_vec,
+            meval_map,
+            compiled,
+            folded,
+            ratio,
+            folded / meval_best
+        );
+    }
+
+    // The same cash flows through the language's npv() function.
+    let mut args = vec!["r".to_string()];
+    args.extend((0..30).map(|k| format!("c{k}")));
+    let text = format!("npv({})", args.join(", "));
+    let e = Expression::parse(&text).expect("npv text parses");
+    let names: Vec<&str> = args.iter().map(|s| s.as_str()).collect();
+    let p = e.compile(&names).expect("npv compiles");
+    let mut slots: Vec<f64> = vec![0.07, -1000.0];
+    slots.extend((1..30).map(|k| 80.0 + k as f64));
+    let mut stack = vec![0.0; p.stack_size()];
+    let npv_rate = rate(budget, |i| {
+        slots[0] = wiggle(0.07, i);
+        p.eval_with(&slots, &mut stack)
+    });
+    println!("{:<30} {:>12} {:>12} {:>12.3e}", "NPV, 30 cash flows (npv())", "", "", npv_rate);
+    println!(
+        "\nslowest ratio program/meval: {worst:.1}x (goal: at least 10x on each expression)"
+    );
+}

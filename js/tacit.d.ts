@@ -1,0 +1,364 @@
+// Types of the tacit ES module (dist/pkg/tacit.js).
+//
+// Numbers that are not finite (NaN, Infinity) may appear in results, for example the
+// `step` of the first history row or the residual of a failed solve. Requests may use
+// `Infinity` and `-Infinity` for open bounds; NaN in a request is always an error.
+
+/** A method of the scalar driver. "auto" is the default. */
+export type MethodName = "auto" | "secant" | "hybrid" | "bisection" | "illinois";
+
+/** How a solve ended. Only the first three mean the root can be trusted. */
+export type StatusCode =
+  | "converged-step"
+  | "converged-residual"
+  | "exact-zero"
+  | "budget-spent"
+  | "flat"
+  | "diverging"
+  | "oscillating"
+  | "stagnated"
+  | "no-sign-change"
+  | "non-finite"
+  | "stuck-at-bound";
+
+/** The kind of step that produced an evaluated point. */
+export type StepKindCode =
+  | "initial"
+  | "secant"
+  | "inverse-quadratic"
+  | "inverse-cubic"
+  | "bisection"
+  | "false-position"
+  | "bracket-search"
+  | "backtrack"
+  | "scan"
+  | "probe";
+
+/** Stopping tolerances and the evaluation budget. Omitted fields keep their defaults. */
+export interface Tolerances {
+  /** Absolute step tolerance (default 0). */
+  xAbs?: number;
+  /** Relative step tolerance (default 1e-12). */
+  xRel?: number;
+  /** Residual tolerance: stop when |f(x)| <= fAbs (default 0: only an exact zero). */
+  fAbs?: number;
+  /** Budget of function evaluations, initial ones included (default 200, at most 10 000 000). */
+  maxEvals?: number;
+}
+
+/** `[lower, upper]`; either end may be `Infinity`/`-Infinity` or `null` (no bound). */
+export type BoundsPair = readonly [number | null, number | null];
+export type NumberPair = readonly [number, number];
+
+/** Where and how a scalar solve starts. Give `guesses` or `bracket`, not both. */
+export interface ScalarOptions {
+  /** Two different starting points; no sign change needed. */
+  guesses?: NumberPair;
+  /** Two points where f has opposite signs. */
+  bracket?: NumberPair;
+  method?: MethodName;
+  tolerances?: Tolerances;
+  /** No point outside these bounds is ever evaluated. */
+  bounds?: BoundsPair;
+  /** Keep one history row per evaluation (default false). */
+  history?: boolean;
+}
+
+export interface HistoryRow {
+  /** 1-based evaluation number. */
+  k: number;
+  x: number;
+  fx: number;
+  /** x minus the previous evaluated point; NaN in the first row. */
+  step: number;
+  /** The sign-change bracket known after this evaluation, or null. */
+  bracket: [number, number] | null;
+  kind: StepKindCode;
+}
+
+/** The outcome of a solve. `converged` is true only when `status` says so. */
+export interface SolveOutcome {
+  converged: boolean;
+  status: StatusCode;
+  /** A plain-language diagnosis that says what to try next. */
+  message: string;
+  /** Exact number of evaluations of the function or equations. */
+  evaluations: number;
+  iterations: number;
+}
+
+/** The result of a scalar solve (JS callback or stepper). */
+export interface ScalarResult extends SolveOutcome {
+  root: number;
+  /** f at `residualAt` (equal to `root` except for the classic secant method). */
+  residual: number;
+  residualAt: number;
+  bracket: [number, number] | null;
+  history: HistoryRow[];
+}
+
+export interface SystemHistoryRow {
+  k: number;
+  x: number[];
+  residualNorm: number;
+  kind: StepKindCode;
+}
+
+export interface Sensitivity {
+  /** The solved unknown. */
+  unknown: string;
+  /** The given value it depends on. */
+  input: string;
+  /** d unknown / d input. */
+  derivative: number;
+  /** Percent change of the unknown per percent change of the input. */
+  relative: number;
+}
+
+/** An unknown of a text equation set. */
+export interface UnknownSpec {
+  name: string;
+  guesses?: NumberPair;
+  bounds?: BoundsPair;
+}
+
+/** Solve a text equation or set for its unknowns. */
+export interface EquationRequest {
+  /** Statements: `lhs = rhs`, a bare expression (= 0), `name := expr`; `;` or newlines between; `#` comments. */
+  equations: string;
+  /** Given values by name. */
+  knowns?: Readonly<Record<string, number>>;
+  /** The unknowns (names, or specs with guesses and bounds). Omitted: every variable not in `knowns`. */
+  unknowns?: ReadonlyArray<string | UnknownSpec>;
+  method?: MethodName;
+  tolerances?: Tolerances;
+  history?: boolean;
+  /** Also compute how each unknown depends on each known (default false). */
+  sensitivities?: boolean;
+}
+
+export interface EquationResult extends SolveOutcome {
+  /** The unknowns by name. */
+  unknowns: Record<string, number>;
+  /** The root when there is one unknown, else null. */
+  root: number | null;
+  /** The largest residual in absolute value. */
+  residual: number;
+  /** One residual per equation. */
+  residuals: number[];
+  bracket: [number, number] | null;
+  /** Scalar history rows (one unknown); empty for systems. */
+  history: HistoryRow[];
+  /** Broyden history rows (several unknowns); empty for one unknown. */
+  systemHistory: SystemHistoryRow[];
+  /** Values of the `name := expr` definitions at the solution. */
+  definitions: Record<string, number>;
+  sensitivities: Sensitivity[];
+  sensitivityEvaluations: number;
+}
+
+/** A given value of a template, in a unit of its dimension. */
+export interface TemplateValue {
+  value: number;
+  unit: string;
+}
+
+export interface TemplateRequest {
+  /** Template id from `catalogue()`. */
+  id: string;
+  /** Given values by symbol. */
+  values: Readonly<Record<string, TemplateValue>>;
+  /** The symbol to solve for. */
+  unknown: string;
+  /** Unit of the result (default: the template's default unit for the unknown). */
+  resultUnit?: string;
+  /** Starting guesses, in the result unit. */
+  guesses?: NumberPair;
+  method?: MethodName;
+  tolerances?: Tolerances;
+  history?: boolean;
+  sensitivities?: boolean;
+}
+
+export interface TemplateResult extends EquationResult {
+  /** The unknown in `unit`. */
+  value: number;
+  unit: string;
+  /** Other roots of two-branch templates, in `unit`. */
+  otherRoots: number[];
+  notes: string[];
+  /** A safety caution, where the result feeds a design that can hurt someone. */
+  caution: string | null;
+}
+
+/** Template metadata as published by the core: enough to build a form. */
+export interface TemplateVariable {
+  symbol: string;
+  [field: string]: unknown;
+}
+export interface TemplateInfo {
+  id: string;
+  [field: string]: unknown;
+}
+
+export type RootKind = "sign-change" | "touching";
+
+export interface RangeRoot {
+  x: number;
+  fx: number;
+  kind: RootKind;
+  converged: boolean;
+}
+
+/** All roots in [lo, hi] of a text equation with one unknown, or of a JS function. */
+export interface FindRootsRequest {
+  range: NumberPair;
+  /** Text equation (with `knowns` and `unknown`), or give `f` instead. */
+  equations?: string;
+  knowns?: Readonly<Record<string, number>>;
+  /** Default: the one variable not in `knowns`. */
+  unknown?: string;
+  f?: (x: number) => number;
+  /** Uniform samples across the range (default 400, at most 1 000 000). */
+  samples?: number;
+  tolerances?: Tolerances;
+}
+
+export interface FindRootsResult {
+  roots: RangeRoot[];
+  evaluations: number;
+  samples: number;
+  spacing: number;
+  /** What the scan cannot see (roots closer together than the spacing, and so on). */
+  limits: string;
+}
+
+/** Solve one unknown across a range of one known, each solve starting from the previous root. */
+export interface SweepRequest {
+  equations: string;
+  knowns?: Readonly<Record<string, number>>;
+  /** The unknown solved at each point. Default: the one variable not in `knowns` or `input`. */
+  unknown?: string;
+  /** The known that is swept. */
+  input: string;
+  from: number;
+  to: number;
+  /** Number of points, from and to included (2 to 100 000). */
+  points: number;
+  /** Guesses for the first point (default [1, 2]). */
+  guesses?: NumberPair;
+  bounds?: BoundsPair;
+  method?: MethodName;
+  tolerances?: Tolerances;
+}
+
+export interface SweepResult {
+  input: number[];
+  root: number[];
+  status: StatusCode[];
+  converged: boolean[];
+  evaluations: number[];
+  /** Sum of `evaluations`. */
+  totalEvaluations: number;
+}
+
+export interface SystemOptions {
+  /** Starting point, one value per unknown (1 to 200 unknowns). */
+  x0: ReadonlyArray<number>;
+  tolerances?: Tolerances;
+  /** One pair per unknown, or omitted. */
+  bounds?: ReadonlyArray<BoundsPair>;
+  history?: boolean;
+}
+
+export interface SystemResult extends SolveOutcome {
+  roots: number[];
+  residuals: number[];
+  /** The largest residual in absolute value. */
+  residual: number;
+  history: SystemHistoryRow[];
+}
+
+export type CheckResult =
+  | {
+      ok: true;
+      /** Free variables in order of first appearance (defined names excluded). */
+      variables: string[];
+      definitions: string[];
+      equations: number;
+    }
+  | {
+      ok: false;
+      code: string;
+      message: string;
+      /** Character offset of the problem, when known. */
+      position: number | null;
+      /** The offending line with a `^` under the position, when known. */
+      caret: string | null;
+    };
+
+/** A value to initialise with: the .wasm bytes, a compiled module, or where to fetch it from. */
+export type WasmSource = BufferSource | WebAssembly.Module | URL | string;
+
+/** Loads the WebAssembly module. Call once before anything else; later calls do nothing. */
+export function init(wasm?: WasmSource): Promise<void>;
+/** Synchronous initialisation from bytes or a compiled module. */
+export function initSync(wasm: BufferSource | WebAssembly.Module): void;
+
+export function solveEquation(req: EquationRequest): EquationResult;
+export function solveTemplate(req: TemplateRequest): TemplateResult;
+export function solveFunction(f: (x: number) => number, opts: ScalarOptions): ScalarResult;
+export function solveFunctionAsync(
+  f: (x: number) => number | PromiseLike<number>,
+  opts: ScalarOptions,
+): Promise<ScalarResult>;
+export function solveSystemFunction(
+  F: (x: number[]) => number[] | Float64Array,
+  opts: SystemOptions,
+): SystemResult;
+export function findRoots(req: FindRootsRequest): FindRootsResult;
+export function sweep(req: SweepRequest): SweepResult;
+/** Every bundled template with its full metadata. */
+export function catalogue(): TemplateInfo[];
+export function convertUnit(value: number, from: string, to: string): number;
+export interface DimensionUnits {
+  dimension: string;
+  /** Unit symbols; the first is the SI unit. */
+  units: string[];
+}
+/** Every dimension with its units. */
+export function units(): DimensionUnits[];
+/** Parses an equation text without solving it. Never throws for bad text. */
+export function checkEquation(text: string): CheckResult;
+/** The crate version of the module. */
+export const version: string;
+
+/** An ask–tell solve: it says where to evaluate and waits, as long as it takes. */
+export class Stepper {
+  private constructor();
+  static create(opts: ScalarOptions): Stepper;
+  /** Rebuilds a stepper from `save()` output; a changed record is a TacitError. */
+  static restore(json: string): Stepper;
+  /** The x to evaluate next, or null when done. Asking again gives the same x. */
+  next(): number | null;
+  /** Records f at the x from `next()`. NaN and Infinity are accepted (the method backs off). */
+  tell(fx: number): void;
+  readonly done: boolean;
+  /** Evaluations told so far. */
+  readonly evaluations: number;
+  /** The result once done, else null. */
+  readonly result: ScalarResult | null;
+  /** The set-up and every value told so far, as JSON. */
+  save(): string;
+  /** Releases the memory now instead of at garbage collection. */
+  free(): void;
+}
+
+/** Every error the module throws. */
+export class TacitError extends Error {
+  /** Stable machine-readable code, e.g. "bad-request", "parse-error", "callback-threw". */
+  readonly code: string;
+  /** Character offset into the equation text, for equation errors. */
+  readonly position?: number;
+  constructor(code: string, message: string, position?: number, options?: { cause?: unknown });
+}

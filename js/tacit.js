@@ -1,0 +1,436 @@
+// tacit: the public ES module over the WebAssembly core (tacit_core.js, made by wasm-bindgen).
+//
+// Requests cross the boundary as JSON text. Non-finite numbers travel as the strings
+// "NaN", "Infinity" and "-Infinity" (JSON has none) and are turned back into numbers here.
+// Scalar JS functions are driven from here over the ask–tell stepper, so the same loop
+// serves plain and Promise-returning functions. Every error is a TacitError with a code.
+
+import * as core from "./tacit_core.js";
+
+export const version = "__TACIT_VERSION__";
+
+export class TacitError extends Error {
+  constructor(code, message, position, options) {
+    super(message, options);
+    this.name = "TacitError";
+    this.code = code;
+    if (position !== undefined && position !== null) this.position = position;
+  }
+}
+
+let ready = false;
+let pending = null;
+let aborted = null;
+
+const isNode =
+  typeof process !== "undefined" && process.versions != null && process.versions.node != null;
+
+function describe(v) {
+  if (v === null) return "null";
+  if (Array.isArray(v)) return `a list of ${v.length} items`;
+  if (typeof v === "string") return v.length > 40 ? `a string of ${v.length} characters` : `the string ${JSON.stringify(v)}`;
+  if (typeof v === "number" || typeof v === "boolean" || typeof v === "bigint") return `${typeof v} ${String(v)}`;
+  if (typeof v === "function") return "a function";
+  if (typeof v === "object" && typeof v.then === "function") return "a Promise";
+  return typeof v === "object" ? "an object" : typeof v;
+}
+
+function messageOf(e) {
+  if (e instanceof Error) return e.message;
+  try {
+    return String(e);
+  } catch {
+    return typeof e;
+  }
+}
+
+function checkSource(wasm) {
+  const ok =
+    wasm === undefined ||
+    typeof wasm === "string" ||
+    wasm instanceof URL ||
+    wasm instanceof ArrayBuffer ||
+    ArrayBuffer.isView(wasm) ||
+    wasm instanceof WebAssembly.Module ||
+    (typeof Response !== "undefined" && wasm instanceof Response);
+  if (!ok) {
+    throw new TacitError(
+      "bad-type",
+      `init() takes the .wasm bytes, a WebAssembly.Module, a URL or a path; got ${describe(wasm)}`,
+    );
+  }
+}
+
+/**
+ * Loads the WebAssembly module. With no argument it loads tacit_core_bg.wasm next to
+ * this file (fetched in browsers, read from disk in Node). Later calls do nothing.
+ */
+export async function init(wasm) {
+  checkSource(wasm);
+  if (ready) return;
+  if (pending === null) {
+    pending = (async () => {
+      let source = wasm ?? new URL("./tacit_core_bg.wasm", import.meta.url);
+      const isFile =
+        source instanceof URL
+          ? source.protocol === "file:"
+          : typeof source === "string" && !/^(https?|data|blob):/i.test(source);
+      if (isNode && isFile) {
+        const { readFile } = await import("node:fs/promises");
+        source = await readFile(source);
+      }
+      await core.default({ module_or_path: source });
+      ready = true;
+    })();
+  }
+  try {
+    await pending;
+  } catch (e) {
+    pending = null;
+    throw new TacitError("init-failed", `the WebAssembly module did not load: ${messageOf(e)}`, undefined, {
+      cause: e,
+    });
+  }
+}
+
+/** Synchronous initialisation from the .wasm bytes or a compiled module. */
+export function initSync(wasm) {
+  if (ready) return;
+  if (!(wasm instanceof ArrayBuffer || ArrayBuffer.isView(wasm) || wasm instanceof WebAssembly.Module)) {
+    throw new TacitError("bad-type", `initSync() takes the .wasm bytes or a WebAssembly.Module; got ${describe(wasm)}`);
+  }
+  try {
+    core.initSync({ module: wasm });
+  } catch (e) {
+    throw new TacitError("init-failed", `the WebAssembly module did not load: ${messageOf(e)}`, undefined, {
+      cause: e,
+    });
+  }
+  ready = true;
+}
+
+function ensureReady() {
+  if (aborted !== null) {
+    throw new TacitError(
+      "instance-aborted",
+      `the solver stopped after an internal error and cannot be used until the page or process is reloaded: ${aborted}`,
+    );
+  }
+  if (!ready) throw new TacitError("not-initialised", "call (and await) init() before using tacit");
+}
+
+/** Turns anything thrown by the core into a TacitError. */
+function toTacitError(e) {
+  if (e instanceof TacitError) return e;
+  if (e instanceof WebAssembly.RuntimeError) {
+    let detail = null;
+    try {
+      detail = core.lastPanic() ?? null;
+    } catch {
+      detail = null;
+    }
+    aborted = detail ?? e.message;
+    return new TacitError("internal-panic", `the solver stopped with an internal error: ${aborted}`, undefined, {
+      cause: e,
+    });
+  }
+  if (e instanceof Error && typeof e.code === "string") {
+    return new TacitError(e.code, e.message, e.position, e.cause === undefined ? undefined : { cause: e.cause });
+  }
+  return new TacitError("internal", messageOf(e), undefined, { cause: e });
+}
+
+function guarded(run) {
+  ensureReady();
+  try {
+    return run();
+  } catch (e) {
+    throw toTacitError(e);
+  }
+}
+
+function replacer(_key, v) {
+  if (typeof v === "number" && !Number.isFinite(v)) return String(v);
+  if (typeof v === "function") return "[function]";
+  return v;
+}
+
+function reviver(_key, v) {
+  if (v === "NaN") return NaN;
+  if (v === "Infinity") return Infinity;
+  if (v === "-Infinity") return -Infinity;
+  return v;
+}
+
+function encode(value, what) {
+  if (value === null || typeof value !== "object" || Array.isArray(value)) {
+    throw new TacitError("bad-request", `${what} must be an object, got ${describe(value)}`);
+  }
+  try {
+    return JSON.stringify(value, replacer);
+  } catch (e) {
+    throw new TacitError("bad-request", `${what} cannot be read as JSON: ${messageOf(e)}`, undefined, { cause: e });
+  }
+}
+
+const decode = (text) => JSON.parse(text, reviver);
+
+function requireFunction(f, name) {
+  if (typeof f !== "function") {
+    throw new TacitError("bad-type", `${name} must be a function, got ${describe(f)}`);
+  }
+}
+
+function checkValue(fx, x, name) {
+  if (typeof fx === "number") return fx;
+  const hint =
+    fx !== null && typeof fx === "object" && typeof fx.then === "function"
+      ? "; for a Promise-returning function use solveFunctionAsync"
+      : "";
+  throw new TacitError("callback-bad-value", `${name}(${x}) must return a number, got ${describe(fx)}${hint}`);
+}
+
+function callbackThrew(e, call) {
+  return new TacitError("callback-threw", `${call} threw: ${messageOf(e)}`, undefined, { cause: e });
+}
+
+function evaluate(f, x) {
+  let fx;
+  try {
+    fx = f(x);
+  } catch (e) {
+    throw callbackThrew(e, `f(${x})`);
+  }
+  return checkValue(fx, x, "f");
+}
+
+async function evaluateAsync(f, x) {
+  let fx;
+  try {
+    fx = await f(x);
+  } catch (e) {
+    throw callbackThrew(e, `f(${x})`);
+  }
+  return checkValue(fx, x, "f");
+}
+
+// ---------------------------------------------------------------------------------------
+
+/** Solves a text equation or set for its unknowns. */
+export function solveEquation(req) {
+  const json = encode(req, "the request");
+  return decode(guarded(() => core.solveEquation(json)));
+}
+
+/** Solves a bundled template for one of its symbols, with values in chosen units. */
+export function solveTemplate(req) {
+  const json = encode(req, "the request");
+  return decode(guarded(() => core.solveTemplate(json)));
+}
+
+/** Parses an equation text without solving it; never throws for bad text. */
+export function checkEquation(text) {
+  if (typeof text !== "string") throw new TacitError("bad-type", `the equation text must be a string, got ${describe(text)}`);
+  return JSON.parse(guarded(() => core.checkEquation(text)));
+}
+
+let catalogueText = null;
+/** Every bundled template with its full metadata. */
+export function catalogue() {
+  if (catalogueText === null) catalogueText = guarded(() => core.catalogue());
+  return JSON.parse(catalogueText);
+}
+
+/** Every dimension with its units, SI unit first. */
+export function units() {
+  return JSON.parse(guarded(() => core.unitsCatalogue()));
+}
+
+export function convertUnit(value, from, to) {
+  if (typeof value !== "number") throw new TacitError("bad-type", `value must be a number, got ${describe(value)}`);
+  if (typeof from !== "string") throw new TacitError("bad-type", `from must be a unit string, got ${describe(from)}`);
+  if (typeof to !== "string") throw new TacitError("bad-type", `to must be a unit string, got ${describe(to)}`);
+  return guarded(() => core.convertUnit(value, from, to));
+}
+
+/** Solves one unknown across a range of one known, continuing from the previous root. */
+export function sweep(req) {
+  const json = encode(req, "the request");
+  return decode(guarded(() => core.sweep(json)));
+}
+
+/** All roots in a range, of a text equation with one unknown or of a JS function `f`. */
+export function findRoots(req) {
+  if (req !== null && typeof req === "object" && typeof req.f === "function") {
+    const { f, ...rest } = req;
+    const json = encode(rest, "the request");
+    let failure = null;
+    const adapted = (x) => {
+      if (failure !== null) return NaN;
+      try {
+        return checkValue(f(x), x, "f");
+      } catch (e) {
+        failure = e instanceof TacitError ? e : callbackThrew(e, `f(${x})`);
+        return NaN;
+      }
+    };
+    let text;
+    try {
+      text = guarded(() => core.findRootsFunction(adapted, json));
+    } catch (e) {
+      throw failure ?? e;
+    }
+    if (failure !== null) throw failure;
+    return decode(text);
+  }
+  const json = encode(req, "the request");
+  return decode(guarded(() => core.findRoots(json)));
+}
+
+// ---------------------------------------------------------------------------------------
+
+const TOKEN = Symbol("tacit.Stepper");
+
+/** An ask–tell solve: it says where to evaluate and waits, as long as it takes. */
+export class Stepper {
+  #h;
+
+  constructor(handle, token) {
+    if (token !== TOKEN) {
+      throw new TacitError("bad-call", "make a Stepper with Stepper.create(options) or Stepper.restore(json)");
+    }
+    this.#h = handle;
+  }
+
+  static create(opts) {
+    const json = encode(opts, "the stepper options");
+    return new Stepper(
+      guarded(() => core.StepperHandle.create(json)),
+      TOKEN,
+    );
+  }
+
+  /** Rebuilds a stepper from save() output; a changed record is a TacitError. */
+  static restore(json) {
+    if (typeof json !== "string") {
+      throw new TacitError("bad-saved-stepper", `the saved stepper must be a string, got ${describe(json)}`);
+    }
+    return new Stepper(
+      guarded(() => core.StepperHandle.restore(json)),
+      TOKEN,
+    );
+  }
+
+  #handle() {
+    if (this.#h === null) throw new TacitError("stepper-freed", "this stepper was freed");
+    return this.#h;
+  }
+
+  /** The x to evaluate next, or null when done. */
+  next() {
+    const h = this.#handle();
+    return guarded(() => h.next()) ?? null;
+  }
+
+  /** Records f at the x from next(). */
+  tell(fx) {
+    if (typeof fx !== "number") {
+      throw new TacitError("bad-value", `tell() takes the number f(x), got ${describe(fx)}`);
+    }
+    const h = this.#handle();
+    guarded(() => h.tell(fx));
+  }
+
+  get done() {
+    const h = this.#handle();
+    return guarded(() => h.done);
+  }
+
+  get evaluations() {
+    const h = this.#handle();
+    return guarded(() => h.evaluations);
+  }
+
+  get result() {
+    const h = this.#handle();
+    const text = guarded(() => h.result());
+    return text === undefined ? null : decode(text);
+  }
+
+  save() {
+    const h = this.#handle();
+    return guarded(() => h.save());
+  }
+
+  free() {
+    if (this.#h !== null) {
+      const h = this.#h;
+      this.#h = null;
+      h.free();
+    }
+  }
+}
+
+/** Solves f(x) = 0 for a JS function, with guesses or a bracket, bounds and tolerances. */
+export function solveFunction(f, opts) {
+  requireFunction(f, "f");
+  const stepper = Stepper.create(opts);
+  try {
+    for (let x = stepper.next(); x !== null; x = stepper.next()) {
+      stepper.tell(evaluate(f, x));
+    }
+    return stepper.result;
+  } finally {
+    stepper.free();
+  }
+}
+
+/** As solveFunction, for a function that may return a Promise. */
+export async function solveFunctionAsync(f, opts) {
+  requireFunction(f, "f");
+  const stepper = Stepper.create(opts);
+  try {
+    for (let x = stepper.next(); x !== null; x = stepper.next()) {
+      stepper.tell(await evaluateAsync(f, x));
+    }
+    return stepper.result;
+  } finally {
+    stepper.free();
+  }
+}
+
+/** Solves F(x) = 0 for n unknowns (Broyden's method); F takes and returns n numbers. */
+export function solveSystemFunction(F, opts) {
+  requireFunction(F, "F");
+  const json = encode(opts, "the options");
+  let failure = null;
+  const adapted = (xs) => {
+    if (failure !== null) return null;
+    const x = Array.from(xs);
+    let r;
+    try {
+      r = F(x);
+    } catch (e) {
+      failure = callbackThrew(e, `F([${x.join(", ")}])`);
+      return null;
+    }
+    const n = xs.length;
+    const isList = Array.isArray(r) || r instanceof Float64Array || r instanceof Float32Array;
+    if (!isList || r.length !== n || !Array.prototype.every.call(r, (v) => typeof v === "number")) {
+      failure = new TacitError(
+        "callback-bad-value",
+        `F([${x.join(", ")}]) must return a list of ${n} numbers, got ${describe(r)}`,
+      );
+      return null;
+    }
+    return Float64Array.from(r);
+  };
+  let text;
+  try {
+    text = guarded(() => core.solveSystemFunction(adapted, json));
+  } catch (e) {
+    throw failure ?? e;
+  }
+  if (failure !== null) throw failure;
+  return decode(text);
+}

@@ -1,0 +1,19 @@
+#!/usr/bin/env bash
+# Every benchmark; each prints figures (no timed assertions). Run with `make bench`.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+bash scripts/setup.sh
+export TACIT_SETUP_DONE=1
+
+printf '\n==== evaluation economy of the open (two-guess) default against the plain secant\n'
+cargo run --quiet --release --example bench_open
+printf '\n==== compiled equations against meval\n'
+cargo run --quiet --release --example bench_eval
+printf '\n==== the WebAssembly module\n'
+bash scripts/build-pkg.sh
+node scripts/bench-wasm.mjs
+printf '\n==== the offline page\n'
+node scripts/build-page.mjs
+node scripts/bench-page.mjs
+printf '\n==== bracketing methods on the published test sets\n'
+cargo run --quiet --release --example bench_methods

@@ -1,0 +1,73 @@
+#!/usr/bin/env bash
+# Builds the ES-module package into dist/pkg/:
+#   tacit.js, tacit.d.ts        the public wrapper (from js/)
+#   tacit_core.js, .d.ts, _bg.wasm   the wasm-bindgen output it wraps
+#   package.json
+# Runs scripts/setup.sh first unless TACIT_SETUP_DONE=1.
+# TACIT_NO_WASM_OPT=1 skips the size optimisation by wasm-opt (npm binaryen).
+set -euo pipefail
+cd "$(dirname "$0")/.."
+
+if [ "${TACIT_SETUP_DONE:-}" != 1 ]; then
+  TACIT_SKIP_BROWSER="${TACIT_SKIP_BROWSER:-1}" bash scripts/setup.sh
+fi
+
+say() { printf '[pkg] %s\n' "$*"; }
+
+PROFILE=release-wasm
+TARGET_DIR=$(cargo metadata --format-version 1 --no-deps | node -e 'let s="";process.stdin.on("data",d=>s+=d).on("end",()=>console.log(JSON.parse(s).target_directory))')
+VERSION=$(cargo metadata --format-version 1 --no-deps | node -e 'let s="";process.stdin.on("data",d=>s+=d).on("end",()=>console.log(JSON.parse(s).packages.find(p=>p.name==="tacit").version))')
+WASM="$TARGET_DIR/wasm32-unknown-unknown/$PROFILE/tacit.wasm"
+OUT=dist/pkg
+
+say "cargo build --profile $PROFILE --target wasm32-unknown-unknown"
+cargo build --lib --profile "$PROFILE" --target wasm32-unknown-unknown
+
+rm -rf "$OUT"
+mkdir -p "$OUT"
+say "wasm-bindgen $(wasm-bindgen --version | awk '{print $2}') --target web"
+wasm-bindgen --target web --out-dir "$OUT" --out-name tacit_core "$WASM"
+
+if [ "${TACIT_NO_WASM_OPT:-}" != 1 ] && [ -x node_modules/.bin/wasm-opt ]; then
+  say "wasm-opt -Os (npm binaryen $(node -p 'require("./node_modules/binaryen/package.json").version'))"
+  # rustc emits these features by default; wasm-opt must be told it may keep them.
+  node_modules/.bin/wasm-opt -Os --enable-bulk-memory --enable-nontrapping-float-to-int \
+    --enable-sign-ext --enable-mutable-globals --enable-reference-types --enable-multivalue \
+    "$OUT/tacit_core_bg.wasm" -o "$OUT/tacit_core_bg.wasm.opt"
+  mv "$OUT/tacit_core_bg.wasm.opt" "$OUT/tacit_core_bg.wasm"
+else
+  say "skipping wasm-opt"
+fi
+
+cp js/tacit.js js/tacit.d.ts "$OUT/"
+sed "s/__TACIT_VERSION__/$VERSION/" js/tacit.js >"$OUT/tacit.js"
+
+cat >"$OUT/package.json" <<EOF
+{
+  "name": "tacit",
+  "version": "$VERSION",
+  "description": "Offline solver for implicit design equations (WebAssembly)",
+  "license": "MIT OR Apache-2.0",
+  "type": "module",
+  "main": "./tacit.js",
+  "module": "./tacit.js",
+  "types": "./tacit.d.ts",
+  "exports": {
+    ".": { "types": "./tacit.d.ts", "default": "./tacit.js" },
+    "./tacit_core_bg.wasm": "./tacit_core_bg.wasm"
+  },
+  "files": [
+    "tacit.js",
+    "tacit.d.ts",
+    "tacit_core.js",
+    "tacit_core.d.ts",
+    "tacit_core_bg.wasm",
+    "tacit_core_bg.wasm.d.ts"
+  ],
+  "sideEffects": false
+}
+EOF
+
+RAW=$(wc -c <"$OUT/tacit_core_bg.wasm")
+GZ=$(gzip -9 -c "$OUT/tacit_core_bg.wasm" | wc -c)
+say "built $OUT (tacit $VERSION): tacit_core_bg.wasm $RAW bytes, $GZ gzipped"

@@ -1,0 +1,417 @@
+//! The bracketing hybrid that cannot diverge.
+
+use crate::driver::{Ask, Context, Finish, ScalarMethod};
+use crate::outcome::{Status, StepKind};
+
+/// The bracketing hybrid: Chandrupatla's quadratic/bisection method with a scale-aware
+/// split, a probe at zero and a halving guard.
+///
+/// Chosen by measurement over candidates (Alefeld–Potra–Shi TOMS 748, Brent–Dekker,
+/// Chandrupatla, each with and without the changes below): it needs the fewest
+/// evaluations on both the APS set and Chandrupatla's set (`examples/bench_methods.rs`).
+///
+/// Algorithm. Keep a bracket between x1 (the newest end) and x2 with f(x1)·f(x2) < 0, and
+/// x3, the end dropped last. With ξ = (x1 − x2)/(x3 − x2) and Φ = (f1 − f2)/(f3 − f2):
+/// - if Φ² < ξ and (1 − Φ)² < 1 − ξ, the inverse quadratic through the three points is
+///   monotone over the bracket (Chandrupatla's test), so take its zero, kept at least
+///   tol(u) away from both ends;
+/// - otherwise split the bracket. The split is the midpoint when the ends have similar
+///   magnitudes. When they differ by more than a factor of 8 (same sign) it is the midpoint
+///   of their binary representations, close to the geometric mean, and across zero with
+///   ends more than a factor of 1000 apart it is zero itself, so a bracket such as
+///   [−1e4, 1e-4] reaches the root's scale in a few evaluations instead of thirty halvings;
+/// - an interpolated point that falls very near zero inside a bracket across zero is
+///   replaced by zero: relative convergence towards a root at zero never ends, and one
+///   evaluation at zero either ends the solve or becomes an end;
+/// - guard: if four interpolation steps in a row have not halved the bracket, the next
+///   step is a split, so no more than four evaluations pass between splits while the
+///   bracket shrinks slowly.
+///
+/// - Order of convergence: about 1.839 (inverse quadratic) near a simple root; linear, one
+///   split per evaluation, where the test sends it to the split (multiple roots, flat
+///   stretches); it cannot diverge.
+/// - Evaluations: two for the ends (none with [`Hybrid::from_points`]), then one per
+///   iteration.
+/// - Stops when the bracket is within 2·tol(u) (`tol(x) = x_abs + x_rel·|x|`), when no
+///   float lies strictly between its ends, on |f(u)| ≤ f_abs, or on f(u) = 0 exactly; the
+///   root returned is u, the end with the smaller |f|.
+/// - Every point asked for lies strictly inside the current bracket, which only shrinks,
+///   so no point is evaluated twice and the bounds of the unknown are respected.
+/// - Reference: T. R. Chandrupatla, "A new hybrid quadratic/bisection algorithm for
+///   finding the zero of a nonlinear function without using derivatives", Advances in
+///   Engineering Software 28(3), 1997, pp. 145–149. The split, the zero probe and the guard
+///   are this project's.
+///
+/// ```
+/// use tacit::{solve, MethodKind, Options, Start};
+/// let options = Options { method: MethodKind::Hybrid, ..Options::default() };
+/// let s = solve(Start::Bracket(0.0, 2.0), &options, |x| x * x - 2.0).unwrap();
+/// assert!(s.converged);
+/// assert!((s.root - 2f64.sqrt()).abs() < 1e-11);
+/// ```
+#[derive(Debug, Clone)]
+pub struct Hybrid {
+    x1: f64,
+    f1: f64,
+    x2: f64,
+    f2: f64,
+    /// The end dropped last, when there is one.
+    x3: Option<(f64, f64)>,
+    phase: Phase,
+    iterations: usize,
+    /// Bracket width when the current run of unsplit steps began, and the run's length.
+    anchor_width: f64,
+    unsplit: u8,
+    /// Points evaluated earlier with no usable value that lie inside the bracket.
+    avoid: Vec<f64>,
+}
+
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Phase {
+    NeedFirst,
+    NeedSecond,
+    /// Both ends known; nothing asked yet.
+    Ready,
+    Running,
+}
+
+/// Steps without a split allowed before the guard forces one.
+const GUARD_STEPS: u8 = 4;
+
+impl Hybrid {
+    /// Starts from two ends, evaluated first.
+    pub fn new(a: f64, b: f64) -> Hybrid {
+        Hybrid {
+            x1: a,
+            f1: f64::NAN,
+            x2: b,
+            f2: f64::NAN,
+            x3: None,
+            phase: Phase::NeedFirst,
+            iterations: 0,
+            anchor_width: f64::INFINITY,
+            unsplit: 0,
+            avoid: Vec::new(),
+        }
+    }
+
+    /// Starts from an already evaluated sign-change bracket (fa, fb finite, of opposite
+    /// signs), without evaluating a or b again. `others` are further evaluated points: one
+    /// inside the bracket narrows it; the nearest one outside serves the interpolation.
+    /// None of them is evaluated again.
+    pub fn from_points(a: f64, fa: f64, b: f64, fb: f64, others: &[(f64, f64)]) -> Hybrid {
+        let mut h = Hybrid::new(a, b);
+        h.f1 = fa;
+        h.f2 = fb;
+        h.phase = Phase::Ready;
+        if !(fa.is_finite() && fb.is_finite() && fa.signum() != fb.signum()) {
+            return h; // `check_start` reports it.
+        }
+        let (mut lo, mut flo, mut hi, mut fhi) = if a <= b {
+            (a, fa, b, fb)
+        } else {
+            (b, fb, a, fa)
+        };
+        for &(x, fx) in others {
+            if x > lo && x < hi {
+                if fx.is_nan() {
+                    h.avoid.push(x);
+                } else if fx.signum() == flo.signum() && fx != 0.0 {
+                    lo = x;
+                    flo = fx;
+                } else {
+                    // Same sign as the upper end, or an exact zero (which ends the solve).
+                    hi = x;
+                    fhi = fx;
+                }
+            }
+        }
+        h.avoid.retain(|&x| x > lo && x < hi);
+        let nearest = others
+            .iter()
+            .copied()
+            .filter(|&(x, fx)| x.is_finite() && fx.is_finite() && (x < lo || x > hi))
+            .min_by(|p, q| gap(p.0, lo, hi).total_cmp(&gap(q.0, lo, hi)));
+        // x1 is the end next to x3, as after a step of the method itself.
+        match nearest {
+            Some((x, _)) if x > hi => {
+                (h.x1, h.f1, h.x2, h.f2) = (hi, fhi, lo, flo);
+            }
+            _ => {
+                (h.x1, h.f1, h.x2, h.f2) = (lo, flo, hi, fhi);
+            }
+        }
+        h.x3 = nearest;
+        h
+    }
+
+    fn ends(&self) -> (f64, f64) {
+        (self.x1.min(self.x2), self.x1.max(self.x2))
+    }
+
+    /// The end with the smaller |f|.
+    fn best(&self) -> (f64, f64) {
+        if self.f1.abs() < self.f2.abs() {
+            (self.x1, self.f1)
+        } else {
+            (self.x2, self.f2)
+        }
+    }
+
+    /// Checks the two ends once both are known.
+    fn check_start(&mut self, ctx: &Context) -> Ask {
+        for (x, fx) in [(self.x1, self.f1), (self.x2, self.f2)] {
+            if fx == 0.0 {
+                return Finish::at(Status::ExactZero, x, fx);
+            }
+        }
+        if self.f1.is_nan() || self.f2.is_nan() {
+            let (x, fx) = if self.f1.is_nan() {
+                (self.x2, self.f2)
+            } else {
+                (self.x1, self.f1)
+            };
+            return Finish::at(Status::NonFinite, x, fx);
+        }
+        if self.f1.signum() == self.f2.signum() {
+            let (x, fx) = self.best();
+            return Finish::at(Status::NoSignChange, x, fx);
+        }
+        let (lo, hi) = self.ends();
+        self.anchor_width = hi - lo;
+        self.next(ctx)
+    }
+
+    /// Takes the value at a new point strictly inside the bracket.
+    fn update(&mut self, xt: f64, ft: f64) {
+        if ft.signum() == self.f1.signum() {
+            self.x3 = Some((self.x1, self.f1));
+        } else {
+            self.x3 = Some((self.x2, self.f2));
+            self.x2 = self.x1;
+            self.f2 = self.f1;
+        }
+        self.x1 = xt;
+        self.f1 = ft;
+        let (lo, hi) = self.ends();
+        self.avoid.retain(|&x| x > lo && x < hi);
+    }
+
+    /// Stops, or asks for the next point.
+    fn next(&mut self, ctx: &Context) -> Ask {
+        let (u, fu) = self.best();
+        if fu == 0.0 {
+            return Finish::at(Status::ExactZero, u, fu);
+        }
+        if fu.abs() <= ctx.tol.f_abs {
+            return Finish::at(Status::ConvergedResidual, u, fu);
+        }
+        let (lo, hi) = self.ends();
+        let width = hi - lo;
+        let mid = lo + width / 2.0;
+        let tol = ctx.tol.x_tol(u);
+        if mid <= lo || mid >= hi || width <= 2.0 * tol {
+            return Finish::at(Status::ConvergedStep, u, fu);
+        }
+        if width <= 0.5 * self.anchor_width {
+            self.anchor_width = width;
+            self.unsplit = 0;
+        }
+        let forced = self.unsplit >= GUARD_STEPS;
+        let interpolated = if forced {
+            None
+        } else {
+            self.interpolate(tol / width)
+        };
+        let (mut x, kind) = match interpolated {
+            Some(x) => {
+                self.unsplit += 1;
+                (x, StepKind::InverseQuadratic)
+            }
+            None => {
+                self.unsplit = 0;
+                self.anchor_width = width;
+                (split_point(lo, hi), StepKind::Bisection)
+            }
+        };
+        if lo < 0.0 && hi > 0.0 && x != 0.0 && x.abs() < 0.01 * hi.min(-lo) {
+            x = 0.0;
+        }
+        if !(x > lo && x < hi) {
+            x = mid;
+        }
+        let mut moves = 0;
+        while self.avoid.contains(&x) && moves < 64 {
+            // A point evaluated before without a usable value: step off it (rare).
+            x = if x == mid {
+                x.next_up()
+            } else {
+                x + (mid - x) / 2.0
+            };
+            if !(x > lo && x < hi) {
+                x = mid;
+            }
+            moves += 1;
+        }
+        Ask::Eval(x, kind)
+    }
+
+    /// The inverse quadratic point when Chandrupatla's test accepts it, kept a fraction
+    /// `tl` of the bracket away from both ends; None to split instead.
+    fn interpolate(&self, tl: f64) -> Option<f64> {
+        let (x3, f3) = self.x3?;
+        let (x1, f1, x2, f2) = (self.x1, self.f1, self.x2, self.f2);
+        if !(f1.is_finite() && f2.is_finite() && f3.is_finite()) {
+            return None;
+        }
+        let xi = (x1 - x2) / (x3 - x2);
+        let phi = (f1 - f2) / (f3 - f2);
+        if !(phi * phi < xi && (1.0 - phi) * (1.0 - phi) < 1.0 - xi) {
+            return None;
+        }
+        let t = f1 / (f2 - f1) * f3 / (f2 - f3)
+            + (x3 - x1) / (x2 - x1) * f1 / (f3 - f1) * f2 / (f3 - f2);
+        if !t.is_finite() {
+            return None;
+        }
+        let tl = tl.min(0.5);
+        let t = t.clamp(tl, 1.0 - tl);
+        Some(x1 + t * (x2 - x1))
+    }
+}
+
+impl ScalarMethod for Hybrid {
+    fn step(&mut self, told: Option<(f64, f64)>, ctx: &Context) -> Ask {
+        match (self.phase, told) {
+            (Phase::NeedFirst, None) => {
+                self.phase = Phase::NeedSecond;
+                Ask::Eval(self.x1, StepKind::Initial)
+            }
+            (Phase::NeedSecond, Some((x, fx))) => {
+                self.x1 = x;
+                self.f1 = fx;
+                if fx == 0.0 {
+                    self.phase = Phase::Running;
+                    return Finish::at(Status::ExactZero, x, fx);
+                }
+                self.phase = Phase::Ready;
+                Ask::Eval(self.x2, StepKind::Initial)
+            }
+            (Phase::Ready, told) => {
+                if let Some((x, fx)) = told {
+                    self.x2 = x;
+                    self.f2 = fx;
+                }
+                self.phase = Phase::Running;
+                self.check_start(ctx)
+            }
+            (Phase::Running, Some((x, fx))) => {
+                self.iterations += 1;
+                if fx.is_nan() {
+                    // No sign, so the bracket cannot be narrowed.
+                    let (u, fu) = self.best();
+                    return Finish::at(Status::NonFinite, u, fu);
+                }
+                self.update(x, fx);
+                self.next(ctx)
+            }
+            (_, _) => {
+                let (u, fu) = self.best();
+                Finish::at(Status::NonFinite, u, fu)
+            }
+        }
+    }
+
+    fn bracket(&self) -> Option<(f64, f64)> {
+        let known = matches!(self.phase, Phase::Ready | Phase::Running);
+        if known
+            && self.f1.is_finite()
+            && self.f2.is_finite()
+            && self.f1.signum() != self.f2.signum()
+        {
+            Some(self.ends())
+        } else {
+            None
+        }
+    }
+
+    fn iterations(&self) -> usize {
+        self.iterations
+    }
+}
+
+/// Distance from x to the bracket [lo, hi] (x outside it).
+fn gap(x: f64, lo: f64, hi: f64) -> f64 {
+    if x < lo {
+        lo - x
+    } else {
+        x - hi
+    }
+}
+
+/// Where to split [a, b] (a < b): the midpoint for ends of similar magnitude; for ends of
+/// one sign more than a factor of 8 apart, the midpoint of their binary representations
+/// (near the geometric mean); across zero with ends more than a factor of 1000 apart, zero.
+fn split_point(a: f64, b: f64) -> f64 {
+    let m = a + (b - a) / 2.0;
+    if a == 0.0 || b == 0.0 {
+        return m;
+    }
+    let (small, large) = (a.abs().min(b.abs()), a.abs().max(b.abs()));
+    if a < 0.0 && b > 0.0 {
+        return if large > 1000.0 * small { 0.0 } else { m };
+    }
+    if large <= 8.0 * small {
+        return m;
+    }
+    let c = from_ordered((to_ordered(a) >> 1) + (to_ordered(b) >> 1));
+    if c > a && c < b {
+        c
+    } else {
+        m
+    }
+}
+
+/// Maps floats to integers in the same order (−0 and +0 both to 0).
+fn to_ordered(x: f64) -> i64 {
+    let bits = x.to_bits() as i64;
+    if bits < 0 {
+        -(bits & i64::MAX)
+    } else {
+        bits
+    }
+}
+
+fn from_ordered(k: i64) -> f64 {
+    if k < 0 {
+        f64::from_bits(k.unsigned_abs() | (1u64 << 63))
+    } else {
+        f64::from_bits(k as u64)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ordered_round_trip() {
+        for x in [-1e4, -1.0, 0.0, 1e-300, 1.5, 3e10] {
+            assert_eq!(from_ordered(to_ordered(x)), x);
+        }
+    }
+
+    #[test]
+    fn split_points() {
+        // Same sign, six decades each side of 1: near the geometric mean.
+        let c = split_point(1e-6, 1e6);
+        assert!(c > 0.5 && c < 2.0, "{c}");
+        // Similar magnitudes: the midpoint.
+        assert_eq!(split_point(1.0, 2.0), 1.5);
+        assert_eq!(split_point(-9.0, 31.0), 11.0);
+        // Across zero, very different magnitudes: zero.
+        assert_eq!(split_point(-1e4, 1e-4), 0.0);
+        // One end at zero: the midpoint.
+        assert_eq!(split_point(0.0, 1.0), 0.5);
+    }
+}

@@ -1,0 +1,869 @@
+//! The bundled design-equation templates: a catalogue of data, and the solve that
+//! reads it.
+//!
+//! The catalogue is one JSON file, `catalogue.json` beside this file, embedded with
+//! `include_str!` and parsed once. The same data feeds the page (through
+//! `serde_json::to_string(templates::all())`), the API and the tests. Each
+//! [`Template`] carries its equations in our language, its variables with dimensions,
+//! units, demo-scenario defaults, physical bounds and typical guesses, the variables
+//! it may be solved for, validity notes, a caution where the result is safety-related,
+//! and the published source of the equation.
+//!
+//! [`solve_template`] converts the inputs to SI, solves with
+//! [`crate::equations::solve_set`], converts the answer to the unit asked for, and adds:
+//! - the other roots of multi-root templates (both Mach numbers of an area ratio, the
+//!   liquid-like and vapour-like volumes of a cubic equation of state, the two depths
+//!   of a pipe flowing nearly full), found by a scan of the template's range with
+//!   [`crate::roots_in_range::roots_in_range`], each labelled in the notes;
+//! - the explicit approximations a template compares with (Swamee–Jain, Haaland);
+//! - the warnings whose conditions hold (Colebrook below Re 4000, and so on);
+//! - the values of the template's intermediate outputs, in their display units.
+//!
+//! ```
+//! use tacit::templates::{solve_template, TemplateRequest};
+//! let mut req = TemplateRequest::new("pipes.colebrook", "f");
+//! req.values = vec![("Re".into(), 1e5, "1".into()), ("eps".into(), 1e-4, "m".into()),
+//!                   ("D".into(), 1.0, "m".into())];
+//! let s = solve_template(&req).unwrap();
+//! assert!((s.value - 0.018513866077471648).abs() < 1e-12);
+//! ```
+
+use std::sync::OnceLock;
+
+use serde::{Deserialize, Serialize};
+
+use crate::driver::Options;
+use crate::equations::{solve_set, EquationSet, Expression, SetSolution, UnknownSpec};
+use crate::error::InputError;
+use crate::roots_in_range::{roots_in_range, RootKind, ScanOptions};
+use crate::tolerances::Bounds;
+use crate::units;
+
+/// The standard caution shown with safety-related results.
+pub const CAUTION: &str =
+    "Results support, and do not replace, checks by a licensed professional under local codes.";
+
+const CATALOGUE_TEXT: &str = include_str!("catalogue.json");
+
+/// One bundled template.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Template {
+    /// Stable identifier, used in bookmarks: never renamed.
+    pub id: String,
+    pub title: String,
+    pub field: String,
+    pub description: String,
+    /// The equations in our language, in SI units.
+    pub equations: String,
+    pub variables: Vec<Variable>,
+    /// Quantities solved together with every unknown (a friction factor, an eigenvalue).
+    #[serde(default)]
+    pub auxiliary: Vec<Auxiliary>,
+    /// Definitions of the equations worth showing, with their display units.
+    #[serde(default)]
+    pub outputs: Vec<Output>,
+    /// The variables that may be the unknown (all, unless `unknowns_reason` says why not).
+    #[serde(default)]
+    pub unknowns: Vec<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub unknowns_reason: Option<String>,
+    /// Explicit approximations shown beside the implicit answer.
+    #[serde(default)]
+    pub comparisons: Vec<Comparison>,
+    /// Conditions checked after the solve.
+    #[serde(default)]
+    pub warnings: Vec<Warning>,
+    /// Where the equation applies.
+    pub validity: Vec<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub caution: Option<String>,
+    /// The published source of the equation.
+    pub source: String,
+    /// A list input (cash flows), written `{symbol}` in the equations.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub list: Option<ListInput>,
+}
+
+/// A variable of a template. Values, bounds and guesses are in `unit`.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Variable {
+    pub symbol: String,
+    pub meaning: String,
+    pub dimension: String,
+    /// The default unit.
+    pub unit: String,
+    /// The accepted units (all units of the dimension when not restricted).
+    #[serde(default)]
+    pub units: Vec<String>,
+    /// The default value, from the demo scenario.
+    pub value: f64,
+    /// Physical bounds, in `unit`.
+    pub bounds: [f64; 2],
+    /// Typical starting guesses, in `unit`.
+    pub guesses: [f64; 2],
+    /// Common values offered as choices (deflection limits, mode numbers).
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub choices: Vec<Choice>,
+    /// Tighter limits when this is the unknown, as expressions in SI of the knowns
+    /// (the Euler load for a column's load).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub limits: Option<[String; 2]>,
+    /// When this is the unknown, scan this range for every root.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub roots: Option<RootScan>,
+}
+
+/// A labelled common value of a variable.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Choice {
+    pub label: String,
+    pub value: f64,
+}
+
+/// A quantity solved with every unknown. Bounds and guesses are in SI.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Auxiliary {
+    pub symbol: String,
+    pub meaning: String,
+    pub dimension: String,
+    pub unit: String,
+    pub bounds: [f64; 2],
+    pub guesses: [f64; 2],
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub limits: Option<[String; 2]>,
+}
+
+/// A definition shown with the result.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Output {
+    pub symbol: String,
+    pub meaning: String,
+    pub dimension: String,
+    pub unit: String,
+}
+
+/// An explicit formula (in SI, over every variable, auxiliary and definition) shown
+/// beside the value of `against`, with the difference.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Comparison {
+    pub label: String,
+    pub expr: String,
+    pub against: String,
+}
+
+/// `text` is added to the notes when `when` (an expression in SI) is above zero.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Warning {
+    pub when: String,
+    pub text: String,
+}
+
+/// A scan for every root of the template's one equation in its unknown, over
+/// `[lo, hi]` (expressions in SI of the knowns), evenly spaced or in log spacing.
+/// Roots are labelled by `threshold` (`below`/`above`) or by order
+/// (`smallest`/`middle`/`largest`, or `single` when there is one); `several` is a note
+/// added when more than one root is found.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RootScan {
+    pub lo: String,
+    pub hi: String,
+    pub samples: usize,
+    pub log: bool,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub threshold: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub below: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub above: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub smallest: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub middle: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub largest: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub single: Option<String>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub several: Option<String>,
+}
+
+/// A list input: entries `symbol` of a request, in order, replace the defaults.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ListInput {
+    pub symbol: String,
+    pub meaning: String,
+    pub dimension: String,
+    pub unit: String,
+    pub values: Vec<f64>,
+}
+
+impl Template {
+    pub fn variable(&self, symbol: &str) -> Option<&Variable> {
+        self.variables.iter().find(|v| v.symbol == symbol)
+    }
+
+    /// Whether `symbol` may be the unknown.
+    pub fn may_solve_for(&self, symbol: &str) -> bool {
+        self.unknowns.iter().any(|u| u == symbol)
+    }
+}
+
+impl Variable {
+    /// The default value in SI.
+    pub fn default_si(&self) -> Result<f64, InputError> {
+        units::to_si_in(self.value, &self.unit, &self.dimension)
+    }
+
+    /// The physical bounds in SI.
+    pub fn bounds_si(&self) -> Result<Bounds, InputError> {
+        let lo = units::to_si_in(self.bounds[0], &self.unit, &self.dimension)?;
+        let hi = units::to_si_in(self.bounds[1], &self.unit, &self.dimension)?;
+        Bounds::new(lo.min(hi), lo.max(hi))
+    }
+}
+
+static CATALOGUE: OnceLock<Result<Vec<Template>, String>> = OnceLock::new();
+
+fn load() -> Result<Vec<Template>, String> {
+    let mut list: Vec<Template> =
+        serde_json::from_str(CATALOGUE_TEXT).map_err(|e| format!("catalogue.json: {e}"))?;
+    for t in &mut list {
+        if t.unknowns.is_empty() {
+            t.unknowns = t.variables.iter().map(|v| v.symbol.clone()).collect();
+        }
+        for v in &mut t.variables {
+            if v.units.is_empty() {
+                v.units = units::units_of(&v.dimension)
+                    .into_iter()
+                    .map(String::from)
+                    .collect();
+            }
+        }
+    }
+    Ok(list)
+}
+
+/// Every template, parsed once. Empty only if the embedded catalogue does not parse,
+/// which [`catalogue_error`] reports (and the tests check never happens).
+pub fn all() -> &'static [Template] {
+    match CATALOGUE.get_or_init(load) {
+        Ok(list) => list,
+        Err(_) => &[],
+    }
+}
+
+/// Why the embedded catalogue could not be read, if it could not.
+pub fn catalogue_error() -> Option<&'static str> {
+    CATALOGUE
+        .get_or_init(load)
+        .as_ref()
+        .err()
+        .map(String::as_str)
+}
+
+/// The template with this id.
+pub fn find(id: &str) -> Option<&'static Template> {
+    all().iter().find(|t| t.id == id)
+}
+
+/// A request to solve a template.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TemplateRequest {
+    pub id: String,
+    /// (symbol, value, unit). Variables not given take their defaults; entries for the
+    /// list symbol, in order, replace the default list.
+    pub values: Vec<(String, f64, String)>,
+    pub unknown: String,
+    /// The unit of the answer; the variable's default unit when `None`.
+    pub result_unit: Option<String>,
+    /// Two starting guesses in the result unit; the template's typical guesses when `None`.
+    pub guesses: Option<(f64, f64)>,
+    pub options: Options,
+    pub sensitivities: bool,
+}
+
+impl TemplateRequest {
+    /// A request with every value at its default.
+    pub fn new(id: &str, unknown: &str) -> TemplateRequest {
+        TemplateRequest {
+            id: id.to_string(),
+            values: Vec::new(),
+            unknown: unknown.to_string(),
+            result_unit: None,
+            guesses: None,
+            options: Options::default(),
+            sensitivities: false,
+        }
+    }
+}
+
+/// A value shown with the result, in its display unit.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct OutputValue {
+    pub symbol: String,
+    pub meaning: String,
+    pub value: f64,
+    pub unit: String,
+}
+
+/// The answer to a [`TemplateRequest`].
+#[derive(Debug, Clone, PartialEq)]
+pub struct TemplateSolution {
+    /// The solve, in SI.
+    pub solution: SetSolution,
+    /// The unknown in `unit`.
+    pub value: f64,
+    pub unit: String,
+    /// Other roots of multi-root templates, in `unit`, sorted.
+    pub other_roots: Vec<f64>,
+    /// Root labels, comparisons with explicit approximations, warnings that hold.
+    pub notes: Vec<String>,
+    pub caution: Option<String>,
+    /// Auxiliary quantities and outputs at the solution, in their display units.
+    pub outputs: Vec<OutputValue>,
+}
+
+/// Six significant figures, for notes.
+fn sig(x: f64) -> String {
+    if x == 0.0 || !x.is_finite() {
+        return format!("{x}");
+    }
+    let digits = 6 - 1 - x.abs().log10().floor() as i32;
+    if (-4..=15).contains(&(5 - digits)) && digits >= 0 {
+        let s = format!("{:.*}", digits as usize, x);
+        if s.contains('.') {
+            s.trim_end_matches('0').trim_end_matches('.').to_string()
+        } else {
+            s
+        }
+    } else {
+        format!("{x:.5e}")
+    }
+}
+
+/// Evaluates an expression of the catalogue over named SI values.
+fn eval(text: &str, names: &[&str], values: &[f64], place: &str) -> Result<f64, InputError> {
+    let expr = Expression::parse(text).map_err(|e| {
+        InputError::new(
+            "catalogue-expression",
+            format!("{place}: cannot read `{text}`: {}", e.message),
+        )
+    })?;
+    let program = expr.compile(names).map_err(|e| {
+        InputError::new(
+            "catalogue-expression",
+            format!("{place}: `{text}`: {}", e.message),
+        )
+    })?;
+    Ok(program.eval(values))
+}
+
+/// The equation text with the list placeholder expanded, and the list's knowns.
+fn expand_list(t: &Template, given: &[f64]) -> (String, Vec<(String, f64)>) {
+    let Some(list) = &t.list else {
+        return (t.equations.clone(), Vec::new());
+    };
+    let names: Vec<String> = (0..given.len())
+        .map(|k| format!("{}{k}", list.symbol))
+        .collect();
+    let text = t
+        .equations
+        .replace(&format!("{{{}}}", list.symbol), &names.join(", "));
+    (text, names.into_iter().zip(given.iter().copied()).collect())
+}
+
+/// The bounds of an unknown: its physical bounds within its limits, if any.
+fn limited(
+    bounds: Bounds,
+    limits: &Option<[String; 2]>,
+    names: &[&str],
+    values: &[f64],
+    place: &str,
+) -> Result<Bounds, InputError> {
+    let Some([lo, hi]) = limits else {
+        return Ok(bounds);
+    };
+    let l = eval(lo, names, values, place)?;
+    let h = eval(hi, names, values, place)?;
+    let lo = if l.is_finite() {
+        bounds.lo.max(l)
+    } else {
+        bounds.lo
+    };
+    let hi = if h.is_finite() {
+        bounds.hi.min(h)
+    } else {
+        bounds.hi
+    };
+    if !(lo < hi) {
+        return Err(InputError::new(
+            "no-solution-range",
+            format!(
+                "{place}: with the given values the admissible range is empty (from {} to {}); \
+                 check the inputs",
+                sig(l),
+                sig(h)
+            ),
+        ));
+    }
+    Ok(Bounds { lo, hi })
+}
+
+/// Guesses inside `bounds`: the given ones if they lie inside, else points 2 % in
+/// from each end.
+fn guesses_within(g: (f64, f64), b: Bounds) -> (f64, f64) {
+    if b.contains(g.0) && b.contains(g.1) && g.0 != g.1 {
+        return g;
+    }
+    let w = b.hi - b.lo;
+    (b.lo + 0.02 * w, b.hi - 0.02 * w)
+}
+
+fn label_roots(scan: &RootScan, roots: &[f64]) -> Vec<Option<String>> {
+    let n = roots.len();
+    roots
+        .iter()
+        .enumerate()
+        .map(|(i, &x)| {
+            if let Some(th) = scan.threshold {
+                if x < th {
+                    scan.below.clone()
+                } else {
+                    scan.above.clone()
+                }
+            } else if n == 1 {
+                scan.single.clone()
+            } else if i == 0 {
+                scan.smallest.clone()
+            } else if i == n - 1 {
+                scan.largest.clone()
+            } else {
+                scan.middle.clone()
+            }
+        })
+        .collect()
+}
+
+/// Solves a template for one of its variables. See the module documentation.
+pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputError> {
+    if let Some(err) = catalogue_error() {
+        return Err(InputError::new("catalogue", err.to_string()));
+    }
+    let t = find(&req.id).ok_or_else(|| {
+        InputError::new(
+            "unknown-template",
+            format!("no template has the id \"{}\"", req.id),
+        )
+    })?;
+    let unknown = t.variable(&req.unknown).ok_or_else(|| {
+        InputError::new(
+            "unknown-variable",
+            format!(
+                "template {} has no variable \"{}\"; its variables are {}",
+                t.id,
+                req.unknown,
+                t.variables
+                    .iter()
+                    .map(|v| v.symbol.as_str())
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
+        )
+    })?;
+    if !t.may_solve_for(&unknown.symbol) {
+        let reason = t.unknowns_reason.as_deref().unwrap_or("");
+        return Err(InputError::new(
+            "not-an-unknown",
+            format!(
+                "template {} cannot be solved for \"{}\"; choose one of {}. {reason}",
+                t.id,
+                unknown.symbol,
+                t.unknowns.join(", ")
+            ),
+        ));
+    }
+
+    // Knowns in SI: the request's values over the defaults.
+    let mut knowns: Vec<(String, f64)> = Vec::new();
+    let mut list_values: Vec<f64> = Vec::new();
+    let mut given: Vec<&str> = Vec::new();
+    for (symbol, value, unit) in &req.values {
+        let place = format!("value of {symbol} in template {}", t.id);
+        if !value.is_finite() {
+            return Err(InputError::new(
+                "non-finite-input",
+                format!("the {place} must be a finite number, got {value}"),
+            ));
+        }
+        if let Some(list) = t.list.as_ref().filter(|l| &l.symbol == symbol) {
+            list_values.push(units::to_si_in(*value, unit, &list.dimension)?);
+            continue;
+        }
+        let var = t.variable(symbol).ok_or_else(|| {
+            InputError::new(
+                "unknown-variable",
+                format!("template {} has no variable \"{symbol}\"", t.id),
+            )
+        })?;
+        if given.contains(&symbol.as_str()) {
+            return Err(InputError::new(
+                "duplicate-name",
+                format!("{symbol} is given more than once"),
+            ));
+        }
+        given.push(symbol);
+        if symbol == &unknown.symbol {
+            continue; // the unknown's own field: not used
+        }
+        let row = units::unit_in(unit, &var.dimension)?;
+        let accepted = var
+            .units
+            .iter()
+            .any(|u| units::unit_in(u, &var.dimension).is_ok_and(|r| r.symbol == row.symbol));
+        if !accepted {
+            return Err(InputError::new(
+                "unit-not-accepted",
+                format!(
+                    "{symbol} does not take the unit \"{unit}\"; it takes {}",
+                    var.units.join(", ")
+                ),
+            ));
+        }
+        knowns.push((
+            symbol.clone(),
+            units::to_si_in(*value, unit, &var.dimension)?,
+        ));
+    }
+    for var in &t.variables {
+        if var.symbol != unknown.symbol && !knowns.iter().any(|(s, _)| s == &var.symbol) {
+            knowns.push((var.symbol.clone(), var.default_si()?));
+        }
+    }
+    if let Some(list) = &t.list {
+        if list_values.is_empty() {
+            for &v in &list.values {
+                list_values.push(units::to_si_in(v, &list.unit, &list.dimension)?);
+            }
+        }
+        if list_values.len() < 2 {
+            return Err(InputError::new(
+                "short-list",
+                format!(
+                    "template {} needs at least two values of {} ({}), got {}",
+                    t.id,
+                    list.symbol,
+                    list.meaning,
+                    list_values.len()
+                ),
+            ));
+        }
+    }
+    let (text, list_knowns) = expand_list(t, &list_values);
+    knowns.extend(list_knowns);
+
+    let mut declared: Vec<&str> = t.variables.iter().map(|v| v.symbol.as_str()).collect();
+    declared.extend(t.auxiliary.iter().map(|a| a.symbol.as_str()));
+    let set = EquationSet::parse_declaring(&text, &declared)?;
+    let used = set.variables();
+    let names: Vec<&str> = knowns.iter().map(|(s, _)| s.as_str()).collect();
+    let values: Vec<f64> = knowns.iter().map(|(_, v)| *v).collect();
+
+    // The unknown and the auxiliaries, with bounds and guesses in SI.
+    let unit = req
+        .result_unit
+        .clone()
+        .unwrap_or_else(|| unknown.unit.clone());
+    units::unit_in(&unit, &unknown.dimension)?;
+    let place = format!("limits of {} in template {}", unknown.symbol, t.id);
+    let bounds = limited(
+        unknown.bounds_si()?,
+        &unknown.limits,
+        &names,
+        &values,
+        &place,
+    )?;
+    let guesses = match req.guesses {
+        Some((a, b)) => (
+            units::to_si_in(a, &unit, &unknown.dimension)?,
+            units::to_si_in(b, &unit, &unknown.dimension)?,
+        ),
+        None => {
+            let a = units::to_si_in(unknown.guesses[0], &unknown.unit, &unknown.dimension)?;
+            let b = units::to_si_in(unknown.guesses[1], &unknown.unit, &unknown.dimension)?;
+            guesses_within((a, b), bounds)
+        }
+    };
+    let mut specs = vec![UnknownSpec {
+        name: unknown.symbol.clone(),
+        guesses: Some(guesses),
+        bounds,
+    }];
+    for aux in &t.auxiliary {
+        let place = format!("limits of {} in template {}", aux.symbol, t.id);
+        let b = limited(
+            Bounds::new(aux.bounds[0], aux.bounds[1])?,
+            &aux.limits,
+            &names,
+            &values,
+            &place,
+        )?;
+        specs.push(UnknownSpec {
+            name: aux.symbol.clone(),
+            guesses: Some(guesses_within((aux.guesses[0], aux.guesses[1]), b)),
+            bounds: b,
+        });
+    }
+    let set_knowns: Vec<(String, f64)> = knowns
+        .iter()
+        .filter(|(s, _)| used.iter().any(|u| u == s))
+        .cloned()
+        .collect();
+    let solution = solve_set(&set, &set_knowns, &specs, &req.options, req.sensitivities)?;
+    let root_si = solution.unknowns[0].1;
+    let value = units::from_si_in(root_si, &unit, &unknown.dimension)?;
+
+    let mut notes = Vec::new();
+    let mut other_roots = Vec::new();
+
+    // Every root in the template's range, for multi-root templates.
+    if let (Some(scan), true) = (&unknown.roots, t.auxiliary.is_empty()) {
+        let place = format!("root range of {} in template {}", unknown.symbol, t.id);
+        let lo = eval(&scan.lo, &names, &values, &place)?;
+        let hi = eval(&scan.hi, &names, &values, &place)?;
+        if lo.is_finite() && hi.is_finite() && lo < hi && (!scan.log || lo > 0.0) {
+            let mut f = set.residual_fn(&set_knowns, &unknown.symbol)?;
+            let options = ScanOptions {
+                samples: scan.samples.max(10),
+                tol: req.options.tol,
+            };
+            let found = if scan.log {
+                roots_in_range(lo.ln(), hi.ln(), &options, |u| f(u.exp()))?
+            } else {
+                roots_in_range(lo, hi, &options, &mut f)?
+            };
+            let mut roots: Vec<f64> = found
+                .roots
+                .iter()
+                .filter(|r| r.converged && r.kind == RootKind::SignChange)
+                .map(|r| if scan.log { r.x.exp() } else { r.x })
+                .collect();
+            roots.sort_by(f64::total_cmp);
+            let labels = label_roots(scan, &roots);
+            let shown: Vec<String> = roots
+                .iter()
+                .zip(&labels)
+                .map(|(&x, l)| {
+                    let v = units::from_si_in(x, &unit, &unknown.dimension).unwrap_or(f64::NAN);
+                    match l {
+                        Some(l) => format!("{} {unit} ({l})", sig(v)),
+                        None => format!("{} {unit}", sig(v)),
+                    }
+                })
+                .collect();
+            let range = format!(
+                "{} to {} {unit}",
+                sig(units::from_si_in(lo, &unit, &unknown.dimension)?),
+                sig(units::from_si_in(hi, &unit, &unknown.dimension)?)
+            );
+            if roots.is_empty() {
+                notes.push(format!("No root of {} found from {range}.", unknown.symbol));
+            } else {
+                notes.push(format!(
+                    "Roots of {} from {range}: {}.",
+                    unknown.symbol,
+                    shown.join("; ")
+                ));
+            }
+            if roots.len() > 1 {
+                if let Some(s) = &scan.several {
+                    notes.push(s.clone());
+                }
+            }
+            let close = |x: f64| (x - root_si).abs() <= 1e-7 * root_si.abs().max(1e-300);
+            for &x in roots.iter() {
+                if !(solution.converged && close(x)) {
+                    other_roots.push(units::from_si_in(x, &unit, &unknown.dimension)?);
+                }
+            }
+        }
+    }
+
+    // Values at the solution for comparisons, warnings and outputs.
+    let mut all_names: Vec<String> = knowns.iter().map(|(s, _)| s.clone()).collect();
+    let mut all_values: Vec<f64> = knowns.iter().map(|(_, v)| *v).collect();
+    for (s, v) in solution.unknowns.iter().chain(&solution.definitions) {
+        all_names.push(s.clone());
+        all_values.push(*v);
+    }
+    let refs: Vec<&str> = all_names.iter().map(String::as_str).collect();
+    let lookup = |s: &str| refs.iter().position(|n| *n == s).map(|i| all_values[i]);
+    let mut outputs = Vec::new();
+    if solution.converged {
+        for c in &t.comparisons {
+            let place = format!("comparison in template {}", t.id);
+            let approx = eval(&c.expr, &refs, &all_values, &place)?;
+            if let Some(exact) = lookup(&c.against) {
+                let diff = 100.0 * (approx - exact) / exact;
+                notes.push(format!(
+                    "{}: {} = {} ({}{} % from the implicit value {}).",
+                    c.label,
+                    c.against,
+                    sig(approx),
+                    if diff >= 0.0 { "+" } else { "" },
+                    sig(diff),
+                    sig(exact)
+                ));
+            }
+        }
+        for w in &t.warnings {
+            let place = format!("warning in template {}", t.id);
+            if eval(&w.when, &refs, &all_values, &place)? > 0.0 {
+                notes.push(w.text.clone());
+            }
+        }
+        let shown = t
+            .auxiliary
+            .iter()
+            .map(|a| (&a.symbol, &a.meaning, &a.dimension, &a.unit))
+            .chain(
+                t.outputs
+                    .iter()
+                    .map(|o| (&o.symbol, &o.meaning, &o.dimension, &o.unit)),
+            );
+        for (symbol, meaning, dimension, unit) in shown {
+            if let Some(v) = lookup(symbol) {
+                outputs.push(OutputValue {
+                    symbol: symbol.clone(),
+                    meaning: meaning.clone(),
+                    value: units::from_si_in(v, unit, dimension)?,
+                    unit: unit.clone(),
+                });
+            }
+        }
+    } else {
+        notes.push(format!(
+            "Not converged ({}): {}",
+            solution.status.code(),
+            solution.status.diagnosis()
+        ));
+    }
+    other_roots.sort_by(f64::total_cmp);
+    Ok(TemplateSolution {
+        solution,
+        value,
+        unit,
+        other_roots,
+        notes,
+        caution: t.caution.clone(),
+        outputs,
+    })
+}
+
+/// Checks the catalogue: every id unique, every unit and dimension known, every
+/// default inside its bounds, every unknown a variable, every equation text readable
+/// and every expression compiling. Returns the problems found (empty when sound).
+pub fn check_catalogue() -> Vec<String> {
+    let mut problems = Vec::new();
+    if let Some(e) = catalogue_error() {
+        problems.push(e.to_string());
+        return problems;
+    }
+    let mut ids: Vec<&str> = Vec::new();
+    for t in all() {
+        let at = |what: String| format!("{}: {what}", t.id);
+        if ids.contains(&t.id.as_str()) {
+            problems.push(at("duplicate id".into()));
+        }
+        ids.push(&t.id);
+        let mut units_to_check: Vec<(&str, &str)> = Vec::new();
+        for v in &t.variables {
+            units_to_check.push((&v.unit, &v.dimension));
+            for u in &v.units {
+                units_to_check.push((u, &v.dimension));
+            }
+            if !v.units.contains(&v.unit) {
+                problems.push(at(format!(
+                    "{}: default unit not among accepted units",
+                    v.symbol
+                )));
+            }
+            if !(v.bounds[0] <= v.value && v.value <= v.bounds[1]) {
+                problems.push(at(format!(
+                    "{}: default {} outside bounds",
+                    v.symbol, v.value
+                )));
+            }
+            for g in v.guesses {
+                if !(v.bounds[0] <= g && g <= v.bounds[1]) {
+                    problems.push(at(format!("{}: guess {g} outside bounds", v.symbol)));
+                }
+            }
+        }
+        for a in &t.auxiliary {
+            units_to_check.push((&a.unit, &a.dimension));
+        }
+        for o in &t.outputs {
+            units_to_check.push((&o.unit, &o.dimension));
+        }
+        if let Some(l) = &t.list {
+            units_to_check.push((&l.unit, &l.dimension));
+        }
+        for (u, d) in units_to_check {
+            if let Err(e) = units::unit_in(u, d) {
+                problems.push(at(e.message));
+            }
+        }
+        for u in &t.unknowns {
+            if t.variable(u).is_none() {
+                problems.push(at(format!("unknown {u} is not a variable")));
+            }
+        }
+        if t.unknowns.len() < t.variables.len() && t.unknowns_reason.is_none() {
+            problems.push(at(
+                "some variables are not unknowns, with no reason given".into()
+            ));
+        }
+        if t.title.is_empty() || t.description.is_empty() || t.source.is_empty() {
+            problems.push(at("title, description and source are required".into()));
+        }
+        let given: Vec<f64> = t
+            .list
+            .as_ref()
+            .map(|l| l.values.clone())
+            .unwrap_or_default();
+        let (text, _) = expand_list(t, &given);
+        let mut declared: Vec<&str> = t.variables.iter().map(|v| v.symbol.as_str()).collect();
+        declared.extend(t.auxiliary.iter().map(|a| a.symbol.as_str()));
+        match EquationSet::parse_declaring(&text, &declared) {
+            Err(e) => problems.push(at(format!("equations: {}", e.message))),
+            Ok(set) => {
+                if set.equation_count() != 1 + t.auxiliary.len() {
+                    problems.push(at(format!(
+                        "{} equations for 1 unknown and {} auxiliaries",
+                        set.equation_count(),
+                        t.auxiliary.len()
+                    )));
+                }
+                let defs = set.definition_names();
+                for o in &t.outputs {
+                    if !defs.contains(&o.symbol) {
+                        problems.push(at(format!("output {} is not a definition", o.symbol)));
+                    }
+                }
+            }
+        }
+        if t.caution.as_deref().is_some_and(|c| c != CAUTION) {
+            problems.push(at("caution differs from the standard text".into()));
+        }
+    }
+    problems
+}

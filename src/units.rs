@@ -1,0 +1,649 @@
+//! Run-time unit conversion for every dimension the templates use.
+//!
+//! Each unit is one row of [`UNITS`]: its symbol, the spellings also accepted, its
+//! dimension, and how to reach the coherent SI unit of that dimension:
+//! `si = value * factor + offset` (the offset is zero except for °C and °F).
+//! Every row names the source of its factor: NIST SP 811 (2008) Appendix B.8 for
+//! non-SI units, the SI Brochure (9th ed., 2019) Table 7 for SI prefixes and Table 8
+//! for the non-SI units accepted for use with the SI. Where a unit is a product of
+//! listed units (lbf/ft³ from lbf and ft), the factor is computed from the exact
+//! definitions of those units and the row says "derived".
+//!
+//! Temperature comes in two dimensions: `temperature` (a reading, with offsets: K, °C,
+//! °F, °R) and `temperature_difference` (an interval: K, Δ°C, Δ°F, Δ°R).
+//!
+//! ```
+//! use tacit::units;
+//! let psi = units::convert(100.0, "kPa", "psi").unwrap();
+//! assert!((psi - 14.503_773_8).abs() < 1e-6);
+//! assert_eq!(units::convert(0.0, "degC", "K").unwrap(), 273.15);
+//! assert!(units::convert(1.0, "m", "kg").is_err());
+//! ```
+
+use crate::error::{require_finite, InputError};
+
+/// One unit: `si = value * factor + offset`.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct Unit {
+    /// The symbol shown to users.
+    pub symbol: &'static str,
+    /// Other spellings accepted on input (ASCII forms, Unicode forms).
+    pub aliases: &'static [&'static str],
+    pub dimension: &'static str,
+    pub factor: f64,
+    pub offset: f64,
+    /// Where the factor comes from.
+    pub source: &'static str,
+}
+
+const SI: &str = "SI coherent unit (SI Brochure, 9th ed., 2019)";
+const PREFIX: &str = "SI prefix (SI Brochure, 9th ed., 2019, Table 7)";
+const TABLE8: &str =
+    "non-SI unit accepted for use with the SI (SI Brochure, 9th ed., 2019, Table 8)";
+const NIST: &str = "NIST SP 811 (2008) Appendix B.8";
+const NIST_TEMP: &str = "NIST SP 811 (2008) Appendix B.8 and B.9 (temperature formulas)";
+const DERIVED: &str =
+    "derived from the exact definitions of its parts in NIST SP 811 (2008) Appendix B.8";
+
+// Exact definitions the factors are built from (NIST SP 811 (2008) Appendix B.8).
+const FT: f64 = 0.3048;
+const IN: f64 = 0.0254;
+const LB: f64 = 0.453_592_37;
+const G_N: f64 = 9.806_65;
+const LBF: f64 = LB * G_N;
+const BTU_IT: f64 = 1_055.055_852_62;
+const HOUR: f64 = 3600.0;
+const DAY: f64 = 86_400.0;
+const YEAR_365: f64 = 3.1536e7;
+const GAL_US: f64 = 231.0 * IN * IN * IN;
+const DEG_F: f64 = 5.0 / 9.0;
+
+const fn u(
+    symbol: &'static str,
+    aliases: &'static [&'static str],
+    dimension: &'static str,
+    factor: f64,
+    source: &'static str,
+) -> Unit {
+    Unit {
+        symbol,
+        aliases,
+        dimension,
+        factor,
+        offset: 0.0,
+        source,
+    }
+}
+
+/// Every unit, grouped by dimension; the first row of each dimension is its SI unit.
+pub static UNITS: &[Unit] = &[
+    // length
+    u("m", &["metre", "meter"], "length", 1.0, SI),
+    u("mm", &[], "length", 1e-3, PREFIX),
+    u("cm", &[], "length", 1e-2, PREFIX),
+    u("km", &[], "length", 1e3, PREFIX),
+    u("um", &["µm", "μm"], "length", 1e-6, PREFIX),
+    u("in", &["inch"], "length", IN, NIST),
+    u("ft", &["foot", "feet"], "length", FT, NIST),
+    u("yd", &["yard"], "length", 0.9144, NIST),
+    u("mi", &["mile"], "length", 1609.344, NIST),
+    // area
+    u("m^2", &["m2", "m²"], "area", 1.0, SI),
+    u("mm^2", &["mm2", "mm²"], "area", 1e-6, PREFIX),
+    u("cm^2", &["cm2", "cm²"], "area", 1e-4, PREFIX),
+    u("ha", &["hectare"], "area", 1e4, TABLE8),
+    u("in^2", &["in2", "in²", "sq in"], "area", IN * IN, NIST),
+    u("ft^2", &["ft2", "ft²", "sq ft"], "area", FT * FT, NIST),
+    u("acre", &["ac"], "area", 4.046_873e3, NIST),
+    // volume
+    u("m^3", &["m3", "m³"], "volume", 1.0, SI),
+    u("L", &["l", "litre", "liter"], "volume", 1e-3, TABLE8),
+    u(
+        "ft^3",
+        &["ft3", "ft³", "cu ft"],
+        "volume",
+        FT * FT * FT,
+        NIST,
+    ),
+    u("gal", &["US gal", "gallon"], "volume", GAL_US, NIST),
+    // volume flow
+    u("m^3/s", &["m3/s", "m³/s", "cumec"], "volume_flow", 1.0, SI),
+    u(
+        "m^3/h",
+        &["m3/h", "m³/h"],
+        "volume_flow",
+        1.0 / HOUR,
+        TABLE8,
+    ),
+    u("m^3/d", &["m3/d", "m³/d"], "volume_flow", 1.0 / DAY, TABLE8),
+    u("L/s", &["l/s"], "volume_flow", 1e-3, TABLE8),
+    u("L/min", &["l/min"], "volume_flow", 1e-3 / 60.0, TABLE8),
+    u(
+        "ft^3/s",
+        &["ft3/s", "ft³/s", "cfs"],
+        "volume_flow",
+        FT * FT * FT,
+        NIST,
+    ),
+    u(
+        "gal/min",
+        &["gpm", "US gpm"],
+        "volume_flow",
+        GAL_US / 60.0,
+        NIST,
+    ),
+    // velocity
+    u("m/s", &[], "velocity", 1.0, SI),
+    u("km/h", &[], "velocity", 1.0 / 3.6, NIST),
+    u("ft/s", &["fps"], "velocity", FT, NIST),
+    u("mi/h", &["mph"], "velocity", 1609.344 / HOUR, NIST),
+    // acceleration
+    u("m/s^2", &["m/s2", "m/s²"], "acceleration", 1.0, SI),
+    u("ft/s^2", &["ft/s2", "ft/s²"], "acceleration", FT, NIST),
+    u("gn", &["g0"], "acceleration", G_N, NIST),
+    // mass
+    u("kg", &[], "mass", 1.0, SI),
+    u("g", &[], "mass", 1e-3, PREFIX),
+    u("t", &["tonne"], "mass", 1e3, TABLE8),
+    u("lb", &["lbm"], "mass", LB, NIST),
+    u("slug", &[], "mass", LBF / FT, NIST),
+    // mass flow
+    u("kg/s", &[], "mass_flow", 1.0, SI),
+    u("kg/h", &[], "mass_flow", 1.0 / HOUR, TABLE8),
+    u("lb/s", &["lbm/s"], "mass_flow", LB, NIST),
+    u("lb/h", &["lbm/h"], "mass_flow", LB / HOUR, NIST),
+    // mass per length
+    u("kg/m", &[], "mass_per_length", 1.0, SI),
+    u("lb/ft", &["lbm/ft"], "mass_per_length", LB / FT, NIST),
+    // force
+    u("N", &["newton"], "force", 1.0, SI),
+    u("kN", &[], "force", 1e3, PREFIX),
+    u("MN", &[], "force", 1e6, PREFIX),
+    u("lbf", &[], "force", LBF, NIST),
+    u("kip", &[], "force", 1e3 * LBF, NIST),
+    u("kgf", &[], "force", G_N, NIST),
+    // force per length (distributed load)
+    u("N/m", &[], "force_per_length", 1.0, SI),
+    u("kN/m", &[], "force_per_length", 1e3, PREFIX),
+    u("lbf/ft", &["plf"], "force_per_length", LBF / FT, NIST),
+    u("lbf/in", &["pli"], "force_per_length", LBF / IN, NIST),
+    u(
+        "kip/ft",
+        &["klf"],
+        "force_per_length",
+        1e3 * LBF / FT,
+        DERIVED,
+    ),
+    // pressure and stress
+    u("Pa", &["pascal"], "pressure", 1.0, SI),
+    u("kPa", &[], "pressure", 1e3, PREFIX),
+    u(
+        "MPa",
+        &["N/mm^2", "N/mm2", "N/mm²"],
+        "pressure",
+        1e6,
+        PREFIX,
+    ),
+    u("GPa", &[], "pressure", 1e9, PREFIX),
+    u("bar", &[], "pressure", 1e5, NIST),
+    u("atm", &[], "pressure", 101_325.0, NIST),
+    u(
+        "psi",
+        &["lbf/in^2", "lbf/in2"],
+        "pressure",
+        LBF / (IN * IN),
+        NIST,
+    ),
+    u(
+        "ksi",
+        &["kip/in^2", "kip/in2"],
+        "pressure",
+        1e3 * LBF / (IN * IN),
+        NIST,
+    ),
+    u(
+        "psf",
+        &["lbf/ft^2", "lbf/ft2"],
+        "pressure",
+        LBF / (FT * FT),
+        NIST,
+    ),
+    u("mmHg", &[], "pressure", 1.333_224e2, NIST),
+    u("ftH2O", &["ft H2O"], "pressure", 2.988_98e3, NIST),
+    // unit weight (weight per volume)
+    u("N/m^3", &["N/m3", "N/m³"], "unit_weight", 1.0, SI),
+    u("kN/m^3", &["kN/m3", "kN/m³"], "unit_weight", 1e3, PREFIX),
+    u(
+        "lbf/ft^3",
+        &["lbf/ft3", "pcf"],
+        "unit_weight",
+        LBF / (FT * FT * FT),
+        DERIVED,
+    ),
+    // density
+    u("kg/m^3", &["kg/m3", "kg/m³"], "density", 1.0, SI),
+    u("g/cm^3", &["g/cm3", "g/cm³"], "density", 1e3, PREFIX),
+    u(
+        "lb/ft^3",
+        &["lb/ft3", "lbm/ft^3"],
+        "density",
+        LB / (FT * FT * FT),
+        NIST,
+    ),
+    // energy
+    u("J", &["joule"], "energy", 1.0, SI),
+    u("kJ", &[], "energy", 1e3, PREFIX),
+    u("MJ", &[], "energy", 1e6, PREFIX),
+    u("kWh", &["kW*h"], "energy", 3.6e6, NIST),
+    u("Btu", &["BTU", "Btu_IT"], "energy", BTU_IT, NIST),
+    u("ft*lbf", &["ft-lbf", "ft·lbf"], "energy", FT * LBF, NIST),
+    // power
+    u("W", &["watt"], "power", 1.0, SI),
+    u("kW", &[], "power", 1e3, PREFIX),
+    u("MW", &[], "power", 1e6, PREFIX),
+    u("hp", &[], "power", 550.0 * FT * LBF, NIST),
+    u("Btu/h", &["BTU/h", "Btuh"], "power", BTU_IT / HOUR, NIST),
+    // time
+    u("s", &["sec"], "time", 1.0, SI),
+    u("ms", &[], "time", 1e-3, PREFIX),
+    u("min", &[], "time", 60.0, TABLE8),
+    u("h", &["hr", "hour"], "time", HOUR, TABLE8),
+    u("d", &["day"], "time", DAY, TABLE8),
+    u("yr", &["year", "a"], "time", YEAR_365, NIST),
+    // frequency
+    u("Hz", &[], "frequency", 1.0, SI),
+    u("kHz", &[], "frequency", 1e3, PREFIX),
+    // temperature (a reading)
+    u("K", &["kelvin"], "temperature", 1.0, SI),
+    Unit {
+        symbol: "°C",
+        aliases: &["degC", "C", "celsius"],
+        dimension: "temperature",
+        factor: 1.0,
+        offset: 273.15,
+        source: NIST_TEMP,
+    },
+    Unit {
+        symbol: "°F",
+        aliases: &["degF", "F", "fahrenheit"],
+        dimension: "temperature",
+        factor: DEG_F,
+        offset: 459.67 * DEG_F,
+        source: NIST_TEMP,
+    },
+    u(
+        "°R",
+        &["degR", "R", "rankine"],
+        "temperature",
+        DEG_F,
+        NIST_TEMP,
+    ),
+    // temperature difference (an interval)
+    u("K", &["kelvin"], "temperature_difference", 1.0, SI),
+    u(
+        "Δ°C",
+        &["delta degC", "ddegC"],
+        "temperature_difference",
+        1.0,
+        NIST_TEMP,
+    ),
+    u(
+        "Δ°F",
+        &["delta degF", "ddegF"],
+        "temperature_difference",
+        DEG_F,
+        NIST_TEMP,
+    ),
+    u(
+        "Δ°R",
+        &["delta degR", "ddegR"],
+        "temperature_difference",
+        DEG_F,
+        NIST_TEMP,
+    ),
+    // angle
+    u("rad", &["radian"], "angle", 1.0, SI),
+    u(
+        "°",
+        &["deg", "degree"],
+        "angle",
+        std::f64::consts::PI / 180.0,
+        TABLE8,
+    ),
+    // dynamic viscosity
+    u(
+        "Pa*s",
+        &["Pa.s", "Pa·s", "N*s/m^2"],
+        "dynamic_viscosity",
+        1.0,
+        SI,
+    ),
+    u(
+        "mPa*s",
+        &["mPa.s", "mPa·s"],
+        "dynamic_viscosity",
+        1e-3,
+        PREFIX,
+    ),
+    u("cP", &["centipoise"], "dynamic_viscosity", 1e-3, NIST),
+    u("P", &["poise"], "dynamic_viscosity", 0.1, NIST),
+    u(
+        "lbf*s/ft^2",
+        &["lbf·s/ft²"],
+        "dynamic_viscosity",
+        LBF / (FT * FT),
+        NIST,
+    ),
+    // kinematic viscosity
+    u("m^2/s", &["m2/s", "m²/s"], "kinematic_viscosity", 1.0, SI),
+    u(
+        "mm^2/s",
+        &["mm2/s", "mm²/s"],
+        "kinematic_viscosity",
+        1e-6,
+        PREFIX,
+    ),
+    u("cSt", &["centistokes"], "kinematic_viscosity", 1e-6, NIST),
+    u("St", &["stokes"], "kinematic_viscosity", 1e-4, NIST),
+    u(
+        "ft^2/s",
+        &["ft2/s", "ft²/s"],
+        "kinematic_viscosity",
+        FT * FT,
+        NIST,
+    ),
+    // diffusivity (thermal diffusivity, coefficient of consolidation)
+    u("m^2/s", &["m2/s", "m²/s"], "diffusivity", 1.0, SI),
+    u("mm^2/s", &["mm2/s", "mm²/s"], "diffusivity", 1e-6, PREFIX),
+    u("m^2/d", &["m2/d", "m²/d"], "diffusivity", 1.0 / DAY, TABLE8),
+    u(
+        "m^2/yr",
+        &["m2/yr", "m²/yr", "m^2/year"],
+        "diffusivity",
+        1.0 / YEAR_365,
+        DERIVED,
+    ),
+    u(
+        "ft^2/h",
+        &["ft2/h", "ft²/h"],
+        "diffusivity",
+        FT * FT / HOUR,
+        NIST,
+    ),
+    u(
+        "ft^2/d",
+        &["ft2/d", "ft²/d"],
+        "diffusivity",
+        FT * FT / DAY,
+        DERIVED,
+    ),
+    // second moment of area
+    u("m^4", &["m4", "m⁴"], "second_moment_of_area", 1.0, SI),
+    u(
+        "mm^4",
+        &["mm4", "mm⁴"],
+        "second_moment_of_area",
+        1e-12,
+        PREFIX,
+    ),
+    u(
+        "cm^4",
+        &["cm4", "cm⁴"],
+        "second_moment_of_area",
+        1e-8,
+        PREFIX,
+    ),
+    u(
+        "in^4",
+        &["in4", "in⁴"],
+        "second_moment_of_area",
+        IN * IN * IN * IN,
+        NIST,
+    ),
+    u(
+        "ft^4",
+        &["ft4", "ft⁴"],
+        "second_moment_of_area",
+        FT * FT * FT * FT,
+        NIST,
+    ),
+    // heat transfer coefficient
+    u(
+        "W/(m^2*K)",
+        &["W/m^2K", "W/m2K", "W/(m²·K)"],
+        "heat_transfer_coefficient",
+        1.0,
+        SI,
+    ),
+    u(
+        "Btu/(h*ft^2*°F)",
+        &["Btu/(h*ft^2*degF)", "Btu/h-ft2-F"],
+        "heat_transfer_coefficient",
+        BTU_IT / (HOUR * FT * FT * DEG_F),
+        NIST,
+    ),
+    // thermal conductivity
+    u(
+        "W/(m*K)",
+        &["W/mK", "W/(m·K)"],
+        "thermal_conductivity",
+        1.0,
+        SI,
+    ),
+    u(
+        "Btu*ft/(h*ft^2*°F)",
+        &["Btu*ft/(h*ft^2*degF)", "Btu/h-ft-F"],
+        "thermal_conductivity",
+        BTU_IT * FT / (HOUR * FT * FT * DEG_F),
+        NIST,
+    ),
+    // specific heat capacity
+    u("J/(kg*K)", &["J/kgK", "J/(kg·K)"], "specific_heat", 1.0, SI),
+    u(
+        "kJ/(kg*K)",
+        &["kJ/kgK", "kJ/(kg·K)"],
+        "specific_heat",
+        1e3,
+        PREFIX,
+    ),
+    u(
+        "Btu/(lb*°F)",
+        &["Btu/(lb*degF)", "Btu/lb-F"],
+        "specific_heat",
+        BTU_IT / (LB * DEG_F),
+        NIST,
+    ),
+    // electric current, potential, resistance
+    u("A", &["ampere"], "current", 1.0, SI),
+    u("mA", &[], "current", 1e-3, PREFIX),
+    u("uA", &["µA", "μA"], "current", 1e-6, PREFIX),
+    u("nA", &[], "current", 1e-9, PREFIX),
+    u("pA", &[], "current", 1e-12, PREFIX),
+    u("V", &["volt"], "voltage", 1.0, SI),
+    u("mV", &[], "voltage", 1e-3, PREFIX),
+    u("kV", &[], "voltage", 1e3, PREFIX),
+    u("ohm", &["Ω", "Ohm"], "resistance", 1.0, SI),
+    u("mohm", &["mΩ"], "resistance", 1e-3, PREFIX),
+    u("kohm", &["kΩ"], "resistance", 1e3, PREFIX),
+    u("Mohm", &["MΩ"], "resistance", 1e6, PREFIX),
+    // molar volume
+    u("m^3/mol", &["m3/mol", "m³/mol"], "molar_volume", 1.0, SI),
+    u(
+        "cm^3/mol",
+        &["cm3/mol", "cm³/mol"],
+        "molar_volume",
+        1e-6,
+        PREFIX,
+    ),
+    u("L/mol", &["l/mol"], "molar_volume", 1e-3, TABLE8),
+    u(
+        "ft^3/lbmol",
+        &["ft3/lbmol"],
+        "molar_volume",
+        FT * FT * FT / (LB * 1e3),
+        DERIVED,
+    ),
+    // Manning's roughness coefficient, in its SI form
+    u("s/m^(1/3)", &["s/m^1/3", "SI"], "manning_n", 1.0, SI),
+    // pure numbers
+    u("1", &["-", ""], "dimensionless", 1.0, SI),
+    u(
+        "%",
+        &["percent"],
+        "dimensionless",
+        0.01,
+        "SI Brochure (9th ed., 2019) 5.4.7",
+    ),
+    // money: no conversion between currencies
+    u("currency", &[], "money", 1.0, "common practice, no source"),
+];
+
+/// Every dimension, in table order.
+pub fn dimensions() -> Vec<&'static str> {
+    let mut out: Vec<&'static str> = Vec::new();
+    for unit in UNITS {
+        if !out.contains(&unit.dimension) {
+            out.push(unit.dimension);
+        }
+    }
+    out
+}
+
+/// The symbols of every unit of `dimension` (empty for an unknown dimension); the first
+/// is the SI unit.
+pub fn units_of(dimension: &str) -> Vec<&'static str> {
+    UNITS
+        .iter()
+        .filter(|unit| unit.dimension == dimension)
+        .map(|unit| unit.symbol)
+        .collect()
+}
+
+/// The SI unit of `dimension`.
+pub fn si_unit(dimension: &str) -> Option<&'static str> {
+    UNITS
+        .iter()
+        .find(|unit| unit.dimension == dimension)
+        .map(|unit| unit.symbol)
+}
+
+/// Spaces dropped and Unicode powers and dots folded, so "m³/s" and "m^3 / s" match.
+fn normalize(text: &str) -> String {
+    let mut out = String::with_capacity(text.len());
+    for c in text.chars() {
+        match c {
+            ' ' | '\t' => {}
+            '²' => out.push_str("^2"),
+            '³' => out.push_str("^3"),
+            '⁴' => out.push_str("^4"),
+            '·' | '⋅' => out.push('*'),
+            'μ' => out.push('µ'),
+            _ => out.push(c),
+        }
+    }
+    out
+}
+
+fn matches(unit: &Unit, wanted: &str) -> bool {
+    normalize(unit.symbol) == wanted || unit.aliases.iter().any(|a| normalize(a) == wanted)
+}
+
+/// Every row whose symbol or alias is `symbol` (one per dimension it belongs to).
+pub fn lookup(symbol: &str) -> Vec<&'static Unit> {
+    let wanted = normalize(symbol);
+    UNITS.iter().filter(|unit| matches(unit, &wanted)).collect()
+}
+
+fn unknown_unit(symbol: &str) -> InputError {
+    InputError::new(
+        "unknown-unit",
+        format!("unknown unit \"{symbol}\"; write it as listed in the unit table, for example m, kPa, ft^3/s, degC"),
+    )
+}
+
+/// The row for `symbol` within `dimension`, with an error that names both when the
+/// unit is unknown or belongs to another dimension.
+pub fn unit_in(symbol: &str, dimension: &str) -> Result<&'static Unit, InputError> {
+    let known = units_of(dimension);
+    if known.is_empty() {
+        return Err(InputError::new(
+            "unknown-dimension",
+            format!("unknown dimension \"{dimension}\""),
+        ));
+    }
+    let rows = lookup(symbol);
+    if let Some(row) = rows.iter().find(|row| row.dimension == dimension) {
+        return Ok(row);
+    }
+    let list = known.join(", ");
+    match rows.first() {
+        Some(row) => Err(InputError::new(
+            "incompatible-unit",
+            format!(
+                "unit \"{symbol}\" is a unit of {}, not of {dimension}; units of {dimension}: {list}",
+                row.dimension.replace('_', " ")
+            ),
+        )),
+        None => Err(InputError::new(
+            "unknown-unit",
+            format!("unknown unit \"{symbol}\" for {dimension}; units of {dimension}: {list}"),
+        )),
+    }
+}
+
+fn first(symbol: &str) -> Result<&'static Unit, InputError> {
+    lookup(symbol)
+        .into_iter()
+        .next()
+        .ok_or_else(|| unknown_unit(symbol))
+}
+
+/// `value` in `unit` expressed in the SI unit of its dimension.
+pub fn to_si(value: f64, unit: &str) -> Result<f64, InputError> {
+    let row = first(unit)?;
+    Ok(value * row.factor + row.offset)
+}
+
+/// A value in SI expressed in `unit`.
+pub fn from_si(value: f64, unit: &str) -> Result<f64, InputError> {
+    let row = first(unit)?;
+    Ok((value - row.offset) / row.factor)
+}
+
+/// `value` in `unit` of `dimension`, in SI; the error names the unit and the dimension.
+pub fn to_si_in(value: f64, unit: &str, dimension: &str) -> Result<f64, InputError> {
+    let row = unit_in(unit, dimension)?;
+    Ok(value * row.factor + row.offset)
+}
+
+/// A value in SI of `dimension`, expressed in `unit`.
+pub fn from_si_in(value: f64, unit: &str, dimension: &str) -> Result<f64, InputError> {
+    let row = unit_in(unit, dimension)?;
+    Ok((value - row.offset) / row.factor)
+}
+
+/// Converts `value` from one unit to another of the same dimension.
+pub fn convert(value: f64, from: &str, to: &str) -> Result<f64, InputError> {
+    require_finite(value, &format!("the value to convert from {from}"))?;
+    let froms = lookup(from);
+    if froms.is_empty() {
+        return Err(unknown_unit(from));
+    }
+    let tos = lookup(to);
+    if tos.is_empty() {
+        return Err(unknown_unit(to));
+    }
+    for a in &froms {
+        if let Some(b) = tos.iter().find(|b| b.dimension == a.dimension) {
+            return Ok((value * a.factor + a.offset - b.offset) / b.factor);
+        }
+    }
+    Err(InputError::new(
+        "incompatible-unit",
+        format!(
+            "cannot convert {from} ({}) to {to} ({}): the dimensions differ",
+            froms[0].dimension.replace('_', " "),
+            tos[0].dimension.replace('_', " ")
+        ),
+    ))
+}

@@ -1,0 +1,174 @@
+//! Properties of the equation language over many random inputs:
+//! - any string is read to `Ok` or `Err`, never a panic, in bounded time;
+//! - compiled programs are bit-identical to the general-purpose reference library
+//!   meval (`meval::Expr::eval_with_context`, crates.io `meval` 0.2) on the same text.
+
+use std::time::{Duration, Instant};
+
+use proptest::prelude::*;
+use tacit::equations::functions::{reference_context, FUNCTIONS};
+use tacit::equations::{solve_set, EquationSet, Expression, UnknownSpec};
+use tacit::Options;
+
+/// A hang guard, not a speed goal: one case must not take seconds.
+const HANG: Duration = Duration::from_secs(5);
+
+/// Reads `text` every way the language offers; only panics or hangs can fail this.
+fn read_every_way(text: &str) {
+    let start = Instant::now();
+    let _ = tacit::equations::caret(text, text.chars().count() / 2);
+    if let Ok(e) = Expression::parse(text) {
+        let names = e.names();
+        let refs: Vec<&str> = names.iter().map(|s| s.as_str()).collect();
+        if let Ok(p) = e.compile(&refs) {
+            let _ = p.eval(&vec![0.5; refs.len()]);
+        }
+    }
+    if let Ok(set) = EquationSet::parse(text) {
+        let vars = set.variables();
+        if let Some((first, rest)) = vars.split_first() {
+            let knowns: Vec<(String, f64)> = rest.iter().map(|v| (v.clone(), 1.5)).collect();
+            let _ = solve_set(
+                &set,
+                &knowns,
+                &[UnknownSpec::named(first)],
+                &Options::default(),
+                true,
+            );
+            let _ = set.residual_fn(&knowns, first).map(|mut f| f(0.25));
+        }
+    }
+    assert!(
+        start.elapsed() < HANG,
+        "{text:?} took {:?}",
+        start.elapsed()
+    );
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(2000))]
+
+    #[test]
+    fn any_unicode_string_is_ok_or_err(text in any::<String>()) {
+        read_every_way(&text);
+    }
+
+    #[test]
+    fn strings_of_the_language_alphabet_are_ok_or_err(
+        text in "[a-z0-9 .+\\-*/%^(),=:;#\n\t]{0,120}"
+    ) {
+        read_every_way(&text);
+    }
+
+    #[test]
+    fn near_miss_texts_are_ok_or_err(
+        text in "(x|y|e|pi|sin\\(|hypot\\(|npv\\(|when\\(|\\(|\\)|,|\\+|-|\\*|/|\\^|=|:=|;|\\.5|2e|1e3| ){0,40}"
+    ) {
+        read_every_way(&text);
+    }
+}
+
+/// Random expressions over x, y, z with every operator and function of the language.
+fn expression() -> impl Strategy<Value = String> {
+    let leaf = prop_oneof![
+        Just("x".to_string()),
+        Just("y".to_string()),
+        Just("z".to_string()),
+        Just("pi".to_string()),
+        Just("e".to_string()),
+        (0u32..1000).prop_map(|n| format!("{n}")),
+        (0u32..1000).prop_map(|n| format!(".{n}")),
+        (1u32..100, -5i32..5).prop_map(|(m, k)| format!("{m}.5e{k}")),
+    ];
+    leaf.prop_recursive(6, 64, 6, |inner| {
+        let binary = (
+            inner.clone(),
+            prop::sample::select(vec!["+", "-", "*", "/", "%", "^"]),
+            inner.clone(),
+        )
+            .prop_map(|(a, op, b)| format!("{a} {op} {b}"));
+        let paren = inner.clone().prop_map(|a| format!("({a})"));
+        let unary = (prop::sample::select(vec!["-", "+"]), inner.clone())
+            .prop_map(|(s, a)| format!("{s}{a}"));
+        let call = (
+            prop::sample::select(FUNCTIONS.iter().map(|f| f.name).collect::<Vec<_>>()),
+            prop::collection::vec(inner, 1..5),
+        )
+            .prop_map(|(name, args)| {
+                let f = tacit::equations::functions::find(name).unwrap();
+                let n = match f.arity {
+                    tacit::equations::functions::Arity::Exact(k) => k,
+                    tacit::equations::functions::Arity::AtLeast(k) => k.max(args.len()),
+                };
+                let args: Vec<String> = args.iter().cycle().take(n).cloned().collect();
+                format!("{name}({})", args.join(", "))
+            });
+        prop_oneof![binary, paren, unary, call]
+    })
+}
+
+fn value() -> impl Strategy<Value = f64> {
+    prop_oneof![
+        -10.0f64..10.0,
+        Just(0.0),
+        Just(-0.0),
+        Just(1.0),
+        -1e6f64..1e6,
+        (1e-300f64..1e-200),
+    ]
+}
+
+/// Same bits, or both NaN (NaN payloads are not part of the language).
+fn same(a: f64, b: f64) -> bool {
+    a.to_bits() == b.to_bits() || (a.is_nan() && b.is_nan())
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(3000))]
+
+    #[test]
+    fn compiled_programs_are_bit_identical_to_meval(
+        text in expression(), x in value(), y in value(), z in value()
+    ) {
+        let e = Expression::parse(&text).unwrap();
+        let program = e.compile(&["x", "y", "z"]).unwrap();
+        let vars = vec![("x", x), ("y", y), ("z", z)];
+        let ctx = reference_context();
+        let reference = e.meval().eval_with_context((&vars, &ctx)).unwrap();
+        let got = program.eval(&[x, y, z]);
+        prop_assert!(same(got, reference), "{text}: compiled {got:e}, meval {reference:e}");
+        // meval on the original text too, where meval reads it (it refuses `.5`).
+        if let Ok(original) = text.parse::<meval::Expr>() {
+            let r2 = original.eval_with_context((&vars, &ctx)).unwrap();
+            prop_assert!(same(got, r2), "{text}: compiled {got:e}, meval(original) {r2:e}");
+        }
+    }
+
+    #[test]
+    fn folded_residuals_are_bit_identical_to_meval(
+        d in expression(), lhs in expression(), rhs in expression(),
+        x in value(), y in value(), z in value()
+    ) {
+        // x is the unknown; y and z are folded into the program, as is `d` unless it uses x.
+        let text = format!("d := {d}\n{lhs} + d = {rhs}");
+        let set = EquationSet::parse(&text).unwrap();
+        let mut knowns = Vec::new();
+        for v in set.variables() {
+            match v.as_str() {
+                "y" => knowns.push(("y".to_string(), y)),
+                "z" => knowns.push(("z".to_string(), z)),
+                _ => {}
+            }
+        }
+        let ctx = reference_context();
+        let vars = vec![("x", x), ("y", y), ("z", z)];
+        let dv = set.definitions()[0].1.meval().eval_with_context((&vars, &ctx)).unwrap();
+        let vars_d = vec![("x", x), ("y", y), ("z", z), ("d", dv)];
+        let reference = set.equations()[0].meval().eval_with_context((&vars_d, &ctx)).unwrap();
+        if set.variables().iter().any(|v| v == "x") {
+            let mut f = set.residual_fn(&knowns, "x").unwrap();
+            let got = f(x);
+            prop_assert!(same(got, reference), "{text}: compiled {got:e}, meval {reference:e}");
+        }
+    }
+}
