@@ -23,6 +23,9 @@ use tacit::equations::{EquationSet, Expression};
 struct Case {
     name: &'static str,
     text: String,
+    /// The same expression as hand-written Rust (same operations in the same order):
+    /// the floor set by the arithmetic and the math library themselves.
+    native: fn(&[f64]) -> f64,
     /// Variable values; the first is the one that changes between evaluations.
     values: Vec<(String, f64)>,
 }
@@ -41,12 +44,25 @@ fn cases() -> Vec<Case> {
         Case {
             name: "Colebrook residual",
             text: "1/sqrt(f) + 2*log10(eps/(3.7*D) + 2.51/(Re*sqrt(f)))".into(),
+            native: |v| {
+                let (f, eps, d, re) = (v[0], v[1], v[2], v[3]);
+                1.0 / f.sqrt() + 2.0 * (eps / (3.7 * d) + 2.51 / (re * f.sqrt())).log10()
+            },
             values: v(&[("f", 0.02), ("eps", 4.6e-5), ("D", 0.3), ("Re", 2.0e5)]),
         },
         Case {
             name: "Manning, trapezoidal channel",
             text: "(1/n)*((b + z*y)*y)*(((b + z*y)*y)/(b + 2*y*sqrt(1 + z^2)))^(2/3)*sqrt(S) - Q"
                 .into(),
+            native: |v| {
+                let (y, n, b, z, s, q) = (v[0], v[1], v[2], v[3], v[4], v[5]);
+                (1.0 / n)
+                    * ((b + z * y) * y)
+                    * (((b + z * y) * y) / (b + 2.0 * y * (1.0 + z.powf(2.0)).sqrt()))
+                        .powf(2.0 / 3.0)
+                    * s.sqrt()
+                    - q
+            },
             values: v(&[
                 ("y", 1.2),
                 ("n", 0.013),
@@ -59,11 +75,26 @@ fn cases() -> Vec<Case> {
         Case {
             name: "isentropic area-Mach",
             text: "(1/M)*((2/(k + 1))*(1 + (k - 1)/2*M^2))^((k + 1)/(2*(k - 1))) - AR".into(),
+            native: |v| {
+                let (m, k, ar) = (v[0], v[1], v[2]);
+                (1.0 / m)
+                    * ((2.0 / (k + 1.0)) * (1.0 + (k - 1.0) / 2.0 * m.powf(2.0)))
+                        .powf((k + 1.0) / (2.0 * (k - 1.0)))
+                    - ar
+            },
             values: v(&[("M", 2.2), ("k", 1.4), ("AR", 2.0)]),
         },
         Case {
             name: "secant formula, column",
             text: "P/A*(1 + e*c/r^2*sec(L/(2*r)*sqrt(P/(E*A)))) - smax".into(),
+            native: |v| {
+                let (p, a, e, c, r, l, em, smax) = (v[0], v[1], v[2], v[3], v[4], v[5], v[6], v[7]);
+                p / a
+                    * (1.0
+                        + e * c / r.powf(2.0)
+                            * (1.0 / (l / (2.0 * r) * (p / (em * a)).sqrt()).cos()))
+                    - smax
+            },
             values: v(&[
                 ("P", 2.0e5),
                 ("A", 4.0e-3),
@@ -78,10 +109,20 @@ fn cases() -> Vec<Case> {
         Case {
             name: "NPV, 30 cash flows (sum)",
             text: npv_terms.join(" + "),
+            native: |v| {
+                let r = v[0];
+                let mut sum = v[1];
+                for k in 1..30 {
+                    sum += v[k + 1] / (1.0 + r).powf(k as f64);
+                }
+                sum
+            },
             values: npv_values,
         },
     ]
 }
+
+const ROUNDS: usize = 5;
 
 /// Evaluations per second of `f`, run for about `budget`.
 fn rate(budget: Duration, mut f: impl FnMut(usize) -> f64) -> f64 {
@@ -107,11 +148,18 @@ fn wiggle(base: f64, i: usize) -> f64 {
 }
 
 fn main() {
-    let budget = Duration::from_millis(400);
+    let budget = Duration::from_millis(60);
     let functions = reference_context();
     println!(
-        "{:<30} {:>12} {:>12} {:>12} {:>12} {:>8} {:>8}",
-        "expression", "meval vec/s", "meval map/s", "program/s", "residual/s", "ratio", "resid."
+        "{:<30} {:>12} {:>12} {:>12} {:>12} {:>12} {:>8} {:>8}",
+        "expression",
+        "meval vec/s",
+        "meval map/s",
+        "program/s",
+        "residual/s",
+        "native/s",
+        "ratio",
+        "resid."
     );
     let mut worst = f64::INFINITY;
     for case in cases() {
@@ -120,7 +168,8 @@ fn main() {
         let program = expr.compile(&names).expect("compiles");
         let mut slots: Vec<f64> = case.values.iter().map(|(_, x)| *x).collect();
         let mut stack = vec![0.0; program.stack_size()];
-        let mut vars: Vec<(&str, f64)> = case.values.iter().map(|(n, x)| (n.as_str(), *x)).collect();
+        let mut vars: Vec<(&str, f64)> =
+            case.values.iter().map(|(n, x)| (n.as_str(), *x)).collect();
         let mut map = reference_context();
         for (n, x) in &case.values {
             map.var(n.clone(), *x);
@@ -143,31 +192,43 @@ fn main() {
             assert_eq!(m.to_bits(), r.to_bits(), "{}: residual differs", case.name);
         }
 
-        let meval_vec = rate(budget, |i| {
-            vars[0].1 = wiggle(base, i);
-            expr.meval()
-                .eval_with_context((&vars, &functions))
-                .unwrap_or(f64::NAN)
-        });
-        let meval_map = rate(budget, |i| {
-            map.var(unknown.as_str(), wiggle(base, i));
-            expr.meval().eval_with_context(&map).unwrap_or(f64::NAN)
-        });
-        let compiled = rate(budget, |i| {
-            slots[0] = wiggle(base, i);
-            program.eval_with(&slots, &mut stack)
-        });
-        let folded = rate(budget, |i| residual(wiggle(base, i)));
+        // Rounds, interleaved, best of each: the machine may be shared, and the best
+        // of several short runs is the least disturbed one.
+        let (mut meval_vec, mut meval_map, mut compiled, mut folded, mut native) =
+            (0f64, 0f64, 0f64, 0f64, 0f64);
+        let mut nv = slots.clone();
+        for _ in 0..ROUNDS {
+            meval_vec = meval_vec.max(rate(budget, |i| {
+                vars[0].1 = wiggle(base, i);
+                expr.meval()
+                    .eval_with_context((&vars, &functions))
+                    .unwrap_or(f64::NAN)
+            }));
+            meval_map = meval_map.max(rate(budget, |i| {
+                map.var(unknown.as_str(), wiggle(base, i));
+                expr.meval().eval_with_context(&map).unwrap_or(f64::NAN)
+            }));
+            compiled = compiled.max(rate(budget, |i| {
+                slots[0] = wiggle(base, i);
+                program.eval_with(&slots, &mut stack)
+            }));
+            folded = folded.max(rate(budget, |i| residual(wiggle(base, i))));
+            native = native.max(rate(budget, |i| {
+                nv[0] = wiggle(base, i);
+                (case.native)(black_box(&nv))
+            }));
+        }
         let meval_best = meval_vec.max(meval_map);
         let ratio = compiled / meval_best;
         worst = worst.min(ratio);
         println!(
-            "{:<30} {:>12.3e} {:>12.3e} {:>12.3e} {:>12.3e} {:>7.1}x {:>7.1}x",
+            "{:<30} {:>12.3e} {:>12.3e} {:>12.3e} {:>12.3e} {:>12.3e} {:>7.1}x {:>7.1}x",
             case.name,
             meval_vec,
             meval_map,
             compiled,
             folded,
+            native,
             ratio,
             folded / meval_best
         );
@@ -183,12 +244,16 @@ fn main() {
     let mut slots: Vec<f64> = vec![0.07, -1000.0];
     slots.extend((1..30).map(|k| 80.0 + k as f64));
     let mut stack = vec![0.0; p.stack_size()];
-    let npv_rate = rate(budget, |i| {
-        slots[0] = wiggle(0.07, i);
-        p.eval_with(&slots, &mut stack)
-    });
-    println!("{:<30} {:>12} {:>12} {:>12.3e}", "NPV, 30 cash flows (npv())", "", "", npv_rate);
+    let mut npv_rate = 0f64;
+    for _ in 0..ROUNDS {
+        npv_rate = npv_rate.max(rate(budget, |i| {
+            slots[0] = wiggle(0.07, i);
+            p.eval_with(&slots, &mut stack)
+        }));
+    }
     println!(
-        "\nslowest ratio program/meval: {worst:.1}x (goal: at least 10x on each expression)"
+        "{:<30} {:>12} {:>12} {:>12.3e}",
+        "NPV, 30 cash flows (npv())", "", "", npv_rate
     );
+    println!("\nslowest ratio program/meval: {worst:.1}x (goal: at least 10x on each expression)");
 }

@@ -272,6 +272,8 @@ fn main() {
         "case", "guesses", "auto", "auto status", "secant", "secant status"
     );
     let mut totals = [(0usize, 0usize, 0usize); 2];
+    // Evaluations on the cases that both methods solve.
+    let mut both = [0usize; 2];
     for c in CASES {
         let refs: Vec<f64> = c
             .brackets
@@ -280,6 +282,7 @@ fn main() {
             .collect();
         let near_zero = refs.iter().any(|r| r.abs() < 1e-6);
         let mut cells = Vec::new();
+        let mut row = [(false, 0usize); 2];
         for (i, method) in [MethodKind::Auto, MethodKind::Secant]
             .into_iter()
             .enumerate()
@@ -300,6 +303,7 @@ fn main() {
                     .iter()
                     .any(|r| (s.root - r).abs() <= 1e-8 * r.abs().max(1.0));
             totals[i].1 += s.evaluations;
+            row[i] = (solved, s.evaluations);
             if solved {
                 totals[i].0 += 1;
                 totals[i].2 += s.evaluations;
@@ -309,6 +313,10 @@ fn main() {
                 format!("{}{}", s.evaluations, if solved { "" } else { "*" }),
                 s.status.code()
             ));
+        }
+        if row[0].0 && row[1].0 {
+            both[0] += row[0].1;
+            both[1] += row[1].1;
         }
         println!(
             "{:<24} {:>16} {} {}",
@@ -332,4 +340,8 @@ fn main() {
             totals[i].0, totals[i].1, totals[i].2
         );
     }
+    println!(
+        "on the cases both solve: auto {} evaluations, secant {}",
+        both[0], both[1]
+    );
 }

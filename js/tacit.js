@@ -25,13 +25,29 @@ let aborted = null;
 const isNode =
   typeof process !== "undefined" && process.versions != null && process.versions.node != null;
 
+function isThenable(v) {
+  try {
+    return v !== null && (typeof v === "object" || typeof v === "function") && typeof v.then === "function";
+  } catch {
+    return false;
+  }
+}
+
 function describe(v) {
+  try {
+    return describeUnsafe(v);
+  } catch {
+    return typeof v;
+  }
+}
+
+function describeUnsafe(v) {
   if (v === null) return "null";
+  if (isThenable(v)) return "a Promise";
   if (Array.isArray(v)) return `a list of ${v.length} items`;
   if (typeof v === "string") return v.length > 40 ? `a string of ${v.length} characters` : `the string ${JSON.stringify(v)}`;
   if (typeof v === "number" || typeof v === "boolean" || typeof v === "bigint") return `${typeof v} ${String(v)}`;
   if (typeof v === "function") return "a function";
-  if (typeof v === "object" && typeof v.then === "function") return "a Promise";
   return typeof v === "object" ? "an object" : typeof v;
 }
 
@@ -183,10 +199,7 @@ function requireFunction(f, name) {
 
 function checkValue(fx, x, name) {
   if (typeof fx === "number") return fx;
-  const hint =
-    fx !== null && typeof fx === "object" && typeof fx.then === "function"
-      ? "; for a Promise-returning function use solveFunctionAsync"
-      : "";
+  const hint = isThenable(fx) ? "; for a Promise-returning function use solveFunctionAsync" : "";
   throw new TacitError("callback-bad-value", `${name}(${x}) must return a number, got ${describe(fx)}${hint}`);
 }
 
@@ -261,8 +274,14 @@ export function sweep(req) {
 
 /** All roots in a range, of a text equation with one unknown or of a JS function `f`. */
 export function findRoots(req) {
-  if (req !== null && typeof req === "object" && typeof req.f === "function") {
-    const { f, ...rest } = req;
+  let f;
+  try {
+    f = req !== null && typeof req === "object" ? req.f : undefined;
+  } catch (e) {
+    throw new TacitError("bad-request", `the request cannot be read: ${messageOf(e)}`, undefined, { cause: e });
+  }
+  if (typeof f === "function") {
+    const { f: _f, ...rest } = req;
     const json = encode(rest, "the request");
     let failure = null;
     const adapted = (x) => {

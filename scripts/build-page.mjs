@@ -5,17 +5,19 @@
 // - the page's ES modules (www/*.js) and the package (dist/pkg/tacit.js and the
 //   wasm-bindgen glue it imports) are joined by a small module joiner into one inline
 //   module script;
-// - the sweep worker is joined the same way into an inert <script type="text/plain">
-//   block that the page turns into a Blob-URL worker;
-// - the wasm goes in gzip-compressed and base64-encoded; the page inflates it with the
-//   browser's DecompressionStream;
+// - the sweep worker (www/sweep-worker.js) is joined into the same script: the page gives
+//   that script's own text to a Blob-URL worker, where the worker entry runs instead;
+// - the wasm goes in gzip-compressed, as 7-bit text in an inert data block; the page
+//   inflates it with the browser's DecompressionStream;
 // - the CSS is inlined in a <style> element.
 // A Content-Security-Policy meta tag allows exactly these scripts by their sha256 hash,
 // forbids every connection (connect-src 'none') and allows only blob: workers.
 //
 // Usage: node scripts/build-page.mjs [--out dist/tacit.html]
 import { createHash } from 'node:crypto';
-import { readFileSync, writeFileSync, mkdirSync, existsSync } from 'node:fs';
+import { readFileSync, writeFileSync, mkdirSync, existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { spawnSync } from 'node:child_process';
 import { dirname, join, resolve, relative } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { fileURLToPath } from 'node:url';
@@ -75,7 +77,7 @@ function parseImportClause(clause, where) {
   return { ns, names: parts };
 }
 
-function joinModules(entryPath) {
+function joinModules(entryPaths) {
   const modules = new Map(); // path -> { id, code, deps }
   let nextId = 0;
 
@@ -159,13 +161,41 @@ function joinModules(entryPath) {
     return rec;
   }
 
-  const entry = load(entryPath);
+  const [page, worker] = entryPaths.map(load);
   const order = [...modules.values()].sort((a, b) => a.id - b.id);
   const prelude =
-    'const __defs = [], __done = [];\n' +
+    '"use strict";\nconst __defs = [], __done = [];\n' +
     'const __baseUrl = (typeof location !== "undefined" && location.href) || "file:///";\n' +
     'function __mod(id) { if (!(id in __done)) { __done[id] = null; __done[id] = __defs[id](); } return __done[id]; }\n';
-  return `${prelude}${order.map((m) => m.code).join('\n')}\n__mod(${entry.id});\n`;
+  // One text serves both: the page runs it as its module script, and hands the same text
+  // to the sweep worker as a Blob, where there is no document and the worker entry runs.
+  return `${prelude}${order.map((m) => m.code).join('\n')}\n__mod(typeof document === "undefined" ? ${worker.id} : ${page.id});\n`;
+}
+
+// Drops whole-line // comments and leading indentation, outside template literals. The
+// result is checked by parsing it (node --check); if that fails the text is kept as is.
+function slim(code) {
+  let inTemplate = false;
+  const out = [];
+  for (const line of code.split('\n')) {
+    const t = line.trim();
+    if (!inTemplate) {
+      if (t === '' || (t.startsWith('//') && !t.startsWith('//#'))) continue;
+      out.push(t);
+    } else out.push(line);
+    const ticks = (line.replace(/\\`/g, '').match(/`/g) || []).length;
+    if (ticks % 2 === 1) inTemplate = !inTemplate;
+  }
+  return out.join('\n');
+}
+
+function parses(code) {
+  const dir = mkdtempSync(join(tmpdir(), 'tacit-page-'));
+  const file = join(dir, 'bundle.mjs');
+  writeFileSync(file, code);
+  const r = spawnSync(process.execPath, ['--check', file], { encoding: 'utf8' });
+  rmSync(dir, { recursive: true, force: true });
+  return r.status === 0 ? null : r.stderr;
 }
 
 // ---------------------------------------------------------------------------------------
@@ -174,9 +204,37 @@ const sha256 = (text) => createHash('sha256').update(text, 'utf8').digest('base6
 // A closing script tag inside inlined code would end the element early.
 const guardScript = (text) => text.replace(/<\/(script)/gi, '<\\/$1').replace(/<!--/g, '<\\!--');
 
+// The gzip-compressed wasm as text in an inert <script type="application/octet-stream">
+// block: 7 bits per character, which costs 8/7 of the bytes where base64 costs 4/3. The
+// values the HTML parser would alter or that could end the element (NUL, CR and "<") are
+// written as one character above U+00FF that carries their index and the next 7 bits.
+// www/wasm-bytes.js decodes it.
+const FORBIDDEN = [0x00, 0x0d, 0x3c];
+function encode7(bytes) {
+  const groups = [];
+  let acc = 0;
+  let nbits = 0;
+  for (const b of bytes) {
+    acc = (acc << 8) | b;
+    nbits += 8;
+    while (nbits >= 7) {
+      nbits -= 7;
+      groups.push((acc >> nbits) & 0x7f);
+    }
+    acc &= (1 << nbits) - 1;
+  }
+  if (nbits > 0) groups.push((acc << (7 - nbits)) & 0x7f);
+  let out = '';
+  for (let i = 0; i < groups.length; i++) {
+    const idx = FORBIDDEN.indexOf(groups[i]);
+    if (idx < 0) out += String.fromCharCode(groups[i]);
+    else out += String.fromCharCode(0x100 + ((idx << 7) | (groups[++i] ?? 0)));
+  }
+  return out;
+}
 const wasmBytes = readFileSync(findWasm());
 const wasmGz = gzipSync(wasmBytes, { level: 9 });
-const wasmB64 = wasmGz.toString('base64');
+const wasmText = encode7(wasmGz);
 
 let version = 'unknown';
 try {
@@ -186,14 +244,22 @@ try {
   /* the page says "unknown" */
 }
 
-const pageJs = joinModules(join(root, 'www/app.js'));
-const workerJs = joinModules(join(root, 'www/sweep-worker.js'));
+const joined = joinModules([join(root, 'www/app.js'), join(root, 'www/sweep-worker.js')]);
+const fault = parses(joined);
+if (fault) {
+  console.error(`build-page: the joined script does not parse:\n${fault}`);
+  process.exit(1);
+}
+let pageJs = slim(joined);
+if (parses(pageJs)) {
+  console.error('build-page: note: the slimmed script did not parse; using the full text');
+  pageJs = joined;
+}
 const css = readFileSync(join(root, 'www/style.css'), 'utf8');
 const template = readFileSync(join(root, 'www/index.html'), 'utf8');
 
 // The data script sets two globals read by app.js; it is a classic script so it runs first.
 const dataJs =
-  `globalThis.__TACIT_WASM_GZ_B64 = "${wasmB64}";\n` +
   `globalThis.__TACIT_VERSION = ${JSON.stringify(version)};\n` +
   `globalThis.__TACIT_BUILT = ${JSON.stringify(new Date().toISOString().slice(0, 10))};\n`;
 const pageScript = guardScript(pageJs);
@@ -223,9 +289,8 @@ html = html.replace(marker('style'), () => `<style>\n${css}</style>`);
 html = html.replace(
   marker('scripts'),
   () =>
-    `<script type="text/plain" id="sweep-worker-source">${guardScript(workerJs)}</script>\n` +
-    `<script>${dataScript}</script>\n` +
-    `<script type="module">${pageScript}</script>`,
+    `<script type="application/octet-stream" id="wasm-gz" data-length="${wasmGz.length}">${wasmText}</script>\n` +
+    `<script>${dataScript}</script>\n<script type="module" id="page-script">${pageScript}</script>`,
 );
 
 mkdirSync(dirname(outPath), { recursive: true });
@@ -233,6 +298,6 @@ writeFileSync(outPath, html);
 const kb = (n) => (n / 1024).toFixed(1);
 console.log(
   `${relative(root, outPath)}: ${kb(Buffer.byteLength(html))} KB ` +
-    `(wasm ${kb(wasmBytes.length)} KB, gzip ${kb(wasmGz.length)} KB, base64 ${kb(wasmB64.length)} KB; ` +
-    `page script ${kb(pageJs.length)} KB, worker ${kb(workerJs.length)} KB, css ${kb(css.length)} KB)`,
+    `(wasm ${kb(wasmBytes.length)} KB, gzip ${kb(wasmGz.length)} KB, as text ${kb(Buffer.byteLength(wasmText))} KB; ` +
+    `page and worker script ${kb(pageJs.length)} KB, css ${kb(css.length)} KB)`,
 );

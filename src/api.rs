@@ -11,10 +11,13 @@
 //! `"-Infinity"`, since JSON has none; requests may use the same strings (or `null`) for
 //! open bounds. The JavaScript wrapper turns them back into numbers.
 
-// TEMP(H5): removed once every facade function is wired.
-#![allow(dead_code)]
-
 use serde_json::{json, Map, Value};
+
+use crate::broyden;
+use crate::equations::system::SystemHistoryRow;
+use crate::equations::{self, EquationSet, SetSolution, UnknownSpec};
+use crate::roots_in_range::{self, RangeRoots, ScanOptions};
+use crate::templates::{self, TemplateRequest, TemplateSolution};
 
 use crate::driver::{MethodKind, Options, Start, Stepper};
 use crate::error::InputError;
@@ -290,12 +293,12 @@ pub fn finite_value(v: &Value, place: &str) -> Result<f64, InputError> {
             .as_f64()
             .filter(|x| x.is_finite())
             .ok_or_else(|| bad(format!("{place} must be a finite number, got {n}"))),
-        Value::String(s) if matches!(s.as_str(), "NaN" | "Infinity" | "-Infinity") => Err(
-            InputError::new(
+        Value::String(s) if matches!(s.as_str(), "NaN" | "Infinity" | "-Infinity") => {
+            Err(InputError::new(
                 "non-finite-input",
                 format!("{place} must be a finite number, got {s}"),
-            ),
-        ),
+            ))
+        }
         Value::Null => Err(bad(format!("{place} is missing"))),
         other => Err(bad(format!(
             "{place} must be a number, got {}",
@@ -408,7 +411,14 @@ pub fn read_start(f: &Fields) -> Result<Start, InputError> {
 // ---------------------------------------------------------------------------------------
 // Scalar options and the ask–tell stepper
 
-const SCALAR_FIELDS: [&str; 6] = ["guesses", "bracket", "method", "tolerances", "bounds", "history"];
+const SCALAR_FIELDS: [&str; 6] = [
+    "guesses",
+    "bracket",
+    "method",
+    "tolerances",
+    "bounds",
+    "history",
+];
 
 /// Reads the options of a scalar solve of a JS function or a stepper.
 pub fn scalar_setup(request: &str) -> Result<(Start, Options), InputError> {
@@ -524,10 +534,6 @@ pub fn units_catalogue() -> String {
 // ---------------------------------------------------------------------------------------
 // Text equations
 
-use crate::equations::system::{solve_system, SystemHistoryRow, SystemOptions, SystemSolution};
-use crate::equations::{self, EquationSet, SetSolution, UnknownSpec};
-use crate::roots_in_range::{self, RangeRoots, ScanOptions};
-
 fn check_equation_length(text: &str) -> Result<(), InputError> {
     let n = text.chars().count();
     if n > MAX_EQUATION_CHARS {
@@ -576,11 +582,7 @@ fn implicit_unknowns(set: &EquationSet, given: &[&str]) -> Vec<String> {
         .collect()
 }
 
-fn the_one_unknown(
-    f: &Fields,
-    set: &EquationSet,
-    given: &[&str],
-) -> Result<String, InputError> {
+fn the_one_unknown(f: &Fields, set: &EquationSet, given: &[&str]) -> Result<String, InputError> {
     if let Some(name) = f.string("unknown")? {
         return Ok(name.to_string());
     }
@@ -602,7 +604,11 @@ fn the_one_unknown(
     }
 }
 
-fn read_unknowns(f: &Fields, set: &EquationSet, knowns: &[(String, f64)]) -> Result<Vec<UnknownSpec>, InputError> {
+fn read_unknowns(
+    f: &Fields,
+    set: &EquationSet,
+    knowns: &[(String, f64)],
+) -> Result<Vec<UnknownSpec>, InputError> {
     let Some(list) = f.array("unknowns")? else {
         let given: Vec<&str> = knowns.iter().map(|(n, _)| n.as_str()).collect();
         return Ok(implicit_unknowns(set, &given)
@@ -645,23 +651,36 @@ fn read_unknowns(f: &Fields, set: &EquationSet, knowns: &[(String, f64)]) -> Res
     Ok(out)
 }
 
-fn system_history_value(rows: &[SystemHistoryRow]) -> Value {
+/// System history rows `(k, x, residual norm, kind)` as JSON.
+fn system_rows<'a>(rows: impl Iterator<Item = (usize, &'a [f64], f64, StepKind)>) -> Value {
     Value::Array(
-        rows.iter()
-            .map(|r| {
-                json!({
-                    "k": r.k,
-                    "x": nums(&r.x),
-                    "residualNorm": num(r.residual_norm),
-                    "kind": r.kind.code(),
-                })
+        rows.map(|(k, x, norm, kind)| {
+            json!({
+                "k": k,
+                "x": nums(x),
+                "residualNorm": num(norm),
+                "kind": kind.code(),
             })
-            .collect(),
+        })
+        .collect(),
+    )
+}
+
+fn system_history_value(rows: &[SystemHistoryRow]) -> Value {
+    system_rows(
+        rows.iter()
+            .map(|r| (r.k, r.x.as_slice(), r.residual_norm, r.kind)),
     )
 }
 
 fn max_abs(v: &[f64]) -> f64 {
-    v.iter().fold(0.0f64, |m, r| if r.is_nan() || m.is_nan() { f64::NAN } else { m.max(r.abs()) })
+    v.iter().fold(0.0f64, |m, r| {
+        if r.is_nan() || m.is_nan() {
+            f64::NAN
+        } else {
+            m.max(r.abs())
+        }
+    })
 }
 
 fn named_values(pairs: &[(String, f64)]) -> Value {
@@ -707,7 +726,13 @@ pub fn set_solution_value(s: &SetSolution) -> Value {
 }
 
 const EQUATION_FIELDS: [&str; 7] = [
-    "equations", "knowns", "unknowns", "method", "tolerances", "history", "sensitivities",
+    "equations",
+    "knowns",
+    "unknowns",
+    "method",
+    "tolerances",
+    "history",
+    "sensitivities",
 ];
 
 /// Solves a text equation or set: `{equations, knowns?, unknowns?, method?, tolerances?,
@@ -720,7 +745,13 @@ pub fn solve_equation(request: &str) -> Result<String, InputError> {
     let knowns = f.number_map("knowns")?;
     let unknowns = read_unknowns(&f, &set, &knowns)?;
     let options = read_options(&f, None)?;
-    let solution = equations::solve_set(&set, &knowns, &unknowns, &options, f.boolean("sensitivities")?)?;
+    let solution = equations::solve_set(
+        &set,
+        &knowns,
+        &unknowns,
+        &options,
+        f.boolean("sensitivities")?,
+    )?;
     Ok(text_of(set_solution_value(&solution)))
 }
 
@@ -731,17 +762,33 @@ pub fn solve_equation(request: &str) -> Result<String, InputError> {
 pub const MAX_SWEEP_POINTS: usize = 100_000;
 
 const SWEEP_FIELDS: [&str; 11] = [
-    "equations", "knowns", "unknown", "input", "from", "to", "points", "guesses", "bounds", "method",
+    "equations",
+    "knowns",
+    "unknown",
+    "input",
+    "from",
+    "to",
+    "points",
+    "guesses",
+    "bounds",
+    "method",
     "tolerances",
 ];
 
 /// Two starting points for the next solve of a sweep: the previous root and a step
 /// along the trend of the last two roots (or a small relative step), kept in bounds.
 fn continuation_guesses(prev: f64, before: Option<f64>, bounds: Bounds) -> Option<(f64, f64)> {
-    let trend = before.map(|b| prev - b).filter(|d| d.is_finite() && *d != 0.0);
+    let trend = before
+        .map(|b| prev - b)
+        .filter(|d| d.is_finite() && *d != 0.0);
     let step = trend.unwrap_or(1e-4 * prev.abs().max(1.0));
     let a = bounds.clamp(prev);
-    for b in [a + step, a - step, a + 1e-4 * a.abs().max(1.0), a - 1e-4 * a.abs().max(1.0)] {
+    for b in [
+        a + step,
+        a - step,
+        a + 1e-4 * a.abs().max(1.0),
+        a - 1e-4 * a.abs().max(1.0),
+    ] {
         let b = bounds.clamp(b);
         if b != a && b.is_finite() {
             return Some((a, b));
@@ -805,7 +852,10 @@ pub fn sweep(request: &str) -> Result<String, InputError> {
             .and_then(|r| continuation_guesses(r, before, options.bounds))
             .unwrap_or(first);
         let s = crate::driver::solve(Start::Guesses(a, b), &options, residual).map_err(|e| {
-            InputError { message: format!("at {input} = {value}: {}", e.message), ..e }
+            InputError {
+                message: format!("at {input} = {value}: {}", e.message),
+                ..e
+            }
         })?;
         if s.converged {
             before = last;
@@ -835,7 +885,14 @@ pub fn sweep(request: &str) -> Result<String, InputError> {
 // ---------------------------------------------------------------------------------------
 // All roots in a range
 
-const ROOTS_FIELDS: [&str; 6] = ["range", "equations", "knowns", "unknown", "samples", "tolerances"];
+const ROOTS_FIELDS: [&str; 6] = [
+    "range",
+    "equations",
+    "knowns",
+    "unknown",
+    "samples",
+    "tolerances",
+];
 
 fn scan_setup(f: &Fields) -> Result<(f64, f64, ScanOptions), InputError> {
     let (lo, hi) = f
@@ -900,7 +957,7 @@ pub fn find_roots_function(request: &str, f: impl FnMut(f64) -> f64) -> Result<S
 pub const MAX_SYSTEM_UNKNOWNS: usize = 200;
 
 /// A system solution as a JSON object.
-pub fn system_solution_value(s: &SystemSolution) -> Value {
+pub fn system_solution_value(s: &broyden::SystemSolution) -> Value {
     json!({
         "roots": nums(&s.x),
         "residuals": nums(&s.residuals),
@@ -910,7 +967,7 @@ pub fn system_solution_value(s: &SystemSolution) -> Value {
         "message": s.status.diagnosis(),
         "evaluations": s.evaluations,
         "iterations": s.iterations,
-        "history": system_history_value(&s.history),
+        "history": system_rows(s.history.iter().map(|r| (r.k, r.x.as_slice(), r.residual_norm, r.kind))),
     })
 }
 
@@ -956,15 +1013,232 @@ pub fn solve_system_function(
         if !b.contains(*x) {
             return Err(InputError::new(
                 "start-outside-bounds",
-                format!("options.x0[{i}] = {x} lies outside options.bounds[{i}] [{}, {}]", b.lo, b.hi),
+                format!(
+                    "options.x0[{i}] = {x} lies outside options.bounds[{i}] [{}, {}]",
+                    b.lo, b.hi
+                ),
             ));
         }
     }
-    let options = SystemOptions {
+    let options = broyden::SystemOptions {
         tol: read_tolerances(&fields)?,
         bounds,
         record_history: fields.boolean("history")?,
     };
-    let solution = solve_system(&x0, &options, f)?;
+    let solution = broyden::solve_system(&x0, &options, f)?;
     Ok(text_of(system_solution_value(&solution)))
+}
+
+// ---------------------------------------------------------------------------------------
+// Templates
+
+/// `snake_case` to `camelCase`, for field names of the catalogue.
+fn camel(key: &str) -> String {
+    let mut out = String::with_capacity(key.len());
+    let mut upper = false;
+    for c in key.chars() {
+        if c == '_' {
+            upper = true;
+        } else if upper {
+            out.extend(c.to_uppercase());
+            upper = false;
+        } else {
+            out.push(c);
+        }
+    }
+    out
+}
+
+fn camel_keys(v: Value) -> Value {
+    match v {
+        Value::Object(m) => Value::Object(
+            m.into_iter()
+                .map(|(k, v)| (camel(&k), camel_keys(v)))
+                .collect(),
+        ),
+        Value::Array(a) => Value::Array(a.into_iter().map(camel_keys).collect()),
+        other => other,
+    }
+}
+
+/// Every template with its full metadata, field names in camelCase. Open bounds
+/// (infinite) are `null`.
+pub fn catalogue() -> String {
+    let value = serde_json::to_value(templates::all()).unwrap_or(Value::Array(Vec::new()));
+    text_of(camel_keys(value))
+}
+
+const TEMPLATE_FIELDS: [&str; 9] = [
+    "id",
+    "values",
+    "unknown",
+    "resultUnit",
+    "guesses",
+    "method",
+    "tolerances",
+    "history",
+    "sensitivities",
+];
+
+/// Longest template id or symbol accepted, in characters.
+const MAX_NAME_CHARS: usize = 200;
+
+fn short_name<'a>(s: &'a str, place: &str) -> Result<&'a str, InputError> {
+    let n = s.chars().count();
+    if n > MAX_NAME_CHARS {
+        return Err(bad(format!(
+            "{place} is {n} characters long; the limit is {MAX_NAME_CHARS}"
+        )));
+    }
+    Ok(s)
+}
+
+/// One given value: `{value, unit}`, `[value, unit]`, or a bare number in the
+/// variable's default unit.
+fn template_value(
+    v: &Value,
+    place: &str,
+    default_unit: Option<&str>,
+) -> Result<(f64, String), InputError> {
+    match v {
+        Value::Object(m) => {
+            let f = Fields::new(m, place);
+            f.only(&["value", "unit"])?;
+            let unit = f.required_string("unit")?;
+            check_unit_text(unit, place)?;
+            Ok((f.required_finite("value")?, unit.to_string()))
+        }
+        Value::Array(a) if a.len() == 2 => {
+            let value = finite_value(&a[0], &format!("{place}[0]"))?;
+            let unit = a[1].as_str().ok_or_else(|| {
+                bad(format!(
+                    "{place}[1] must be a unit string, got {}",
+                    describe(&a[1])
+                ))
+            })?;
+            check_unit_text(unit, place)?;
+            Ok((value, unit.to_string()))
+        }
+        Value::Number(_) | Value::String(_) => {
+            let value = finite_value(v, place)?;
+            let unit = default_unit.ok_or_else(|| {
+                InputError::new(
+                    "unknown-variable",
+                    format!("{place} names no variable of this template"),
+                )
+            })?;
+            Ok((value, unit.to_string()))
+        }
+        other => Err(bad(format!(
+            "{place} must be {{value, unit}}, [value, unit] or a number, got {}",
+            describe(other)
+        ))),
+    }
+}
+
+fn template_values(f: &Fields, id: &str) -> Result<Vec<(String, f64, String)>, InputError> {
+    let template = templates::find(id);
+    let unit_of = |symbol: &str| {
+        template
+            .and_then(|t| t.variable(symbol))
+            .map(|v| v.unit.as_str())
+    };
+    let mut out = Vec::new();
+    match f.get("values") {
+        None => {}
+        Some(Value::Object(m)) => {
+            for (symbol, v) in m {
+                let place = format!("request.values.{}", short_name(symbol, "a symbol")?);
+                let (value, unit) = template_value(v, &place, unit_of(symbol))?;
+                out.push((symbol.clone(), value, unit));
+            }
+        }
+        Some(Value::Array(items)) => {
+            for (i, item) in items.iter().enumerate() {
+                let place = format!("request.values[{i}]");
+                let Value::Object(m) = item else {
+                    return Err(bad(format!(
+                        "{place} must be {{symbol, value, unit}}, got {}",
+                        describe(item)
+                    )));
+                };
+                let g = Fields::new(m, place.clone());
+                g.only(&["symbol", "value", "unit"])?;
+                let symbol = short_name(g.required_string("symbol")?, &place)?;
+                let value = g.required_finite("value")?;
+                let unit = match g.string("unit")? {
+                    Some(u) => u,
+                    None => unit_of(symbol).ok_or_else(|| {
+                        InputError::new(
+                            "unknown-variable",
+                            format!("{place}.symbol names no variable of this template"),
+                        )
+                    })?,
+                };
+                check_unit_text(unit, &place)?;
+                out.push((symbol.to_string(), value, unit.to_string()));
+            }
+        }
+        Some(other) => {
+            return Err(bad(format!(
+                "request.values must be an object {{symbol: {{value, unit}}}} or a list, got {}",
+                describe(other)
+            )))
+        }
+    }
+    Ok(out)
+}
+
+/// A [`TemplateSolution`] as a JSON object: the set solution (unknowns in SI) with
+/// `root`/`value` in the result unit, `unit`, `otherRoots`, `notes`, `caution`, `outputs`.
+pub fn template_solution_value(s: &TemplateSolution) -> Value {
+    let mut v = set_solution_value(&s.solution);
+    if let Value::Object(m) = &mut v {
+        m.insert("root".into(), num(s.value));
+        m.insert("value".into(), num(s.value));
+        m.insert("unit".into(), json!(s.unit));
+        m.insert("otherRoots".into(), nums(&s.other_roots));
+        m.insert("notes".into(), json!(s.notes));
+        m.insert("caution".into(), json!(s.caution));
+        m.insert(
+            "outputs".into(),
+            Value::Array(
+                s.outputs
+                    .iter()
+                    .map(|o| json!({"symbol": o.symbol, "meaning": o.meaning, "value": num(o.value), "unit": o.unit}))
+                    .collect(),
+            ),
+        );
+    }
+    v
+}
+
+/// Reads a template request (the JSON of `solveTemplate`).
+pub fn template_request(request: &str) -> Result<TemplateRequest, InputError> {
+    let map = parse_request(request)?;
+    let f = Fields::new(&map, "request");
+    f.only(&TEMPLATE_FIELDS)?;
+    let id = short_name(f.required_string("id")?, "request.id")?;
+    let unknown = short_name(f.required_string("unknown")?, "request.unknown")?;
+    let result_unit = f.string("resultUnit")?;
+    if let Some(u) = result_unit {
+        check_unit_text(u, "the result")?;
+    }
+    Ok(TemplateRequest {
+        id: id.to_string(),
+        values: template_values(&f, id)?,
+        unknown: unknown.to_string(),
+        result_unit: result_unit.map(str::to_string),
+        guesses: f.finite_pair("guesses")?,
+        options: read_options(&f, None)?,
+        sensitivities: f.boolean("sensitivities")?,
+    })
+}
+
+/// Solves a bundled template: `{id, values, unknown, resultUnit?, guesses?, method?,
+/// tolerances?, history?, sensitivities?}`.
+pub fn solve_template(request: &str) -> Result<String, InputError> {
+    let req = template_request(request)?;
+    let solution = templates::solve_template(&req)?;
+    Ok(text_of(template_solution_value(&solution)))
 }

@@ -11,9 +11,6 @@
 //! console, and through `lastPanic()` for the JavaScript wrapper, which turns the trap
 //! that follows into a `TacitError` with code `internal-panic`.
 
-// TEMP(H5): removed once every export is wired.
-#![allow(dead_code, unused_imports)]
-
 use std::cell::RefCell;
 
 use js_sys::{Float64Array, Function, Reflect};
@@ -77,7 +74,9 @@ fn to_js(e: InputError) -> JsValue {
 }
 
 fn type_name(v: &JsValue) -> String {
-    v.js_typeof().as_string().unwrap_or_else(|| "unknown".into())
+    v.js_typeof()
+        .as_string()
+        .unwrap_or_else(|| "unknown".into())
 }
 
 fn wrong_type(what: &str, expected: &str, got: &JsValue) -> JsValue {
@@ -88,8 +87,7 @@ fn wrong_type(what: &str, expected: &str, got: &JsValue) -> JsValue {
 }
 
 fn string_arg(v: &JsValue, what: &str) -> Result<String, JsValue> {
-    v.as_string()
-        .ok_or_else(|| wrong_type(what, "a string", v))
+    v.as_string().ok_or_else(|| wrong_type(what, "a string", v))
 }
 
 fn number_arg(v: &JsValue, what: &str) -> Result<f64, JsValue> {
@@ -134,13 +132,23 @@ fn callback_error(failure: CallbackFailure) -> JsValue {
     }
 }
 
-
 // ---------------------------------------------------------------------------------------
 // Requests as JSON text
 
 #[wasm_bindgen(js_name = solveEquation)]
 pub fn solve_equation(request: JsValue) -> Result<String, JsValue> {
     json_call(&request, api::solve_equation)
+}
+
+#[wasm_bindgen(js_name = solveTemplate)]
+pub fn solve_template(request: JsValue) -> Result<String, JsValue> {
+    json_call(&request, api::solve_template)
+}
+
+/// Every template with its full metadata, as JSON.
+#[wasm_bindgen(js_name = catalogue)]
+pub fn catalogue() -> String {
+    api::catalogue()
 }
 
 #[wasm_bindgen(js_name = sweep)]

@@ -12,8 +12,8 @@ const MAX_BACKTRACKS: usize = 10;
 /// Sufficient decrease of ½‖F‖² along the step (Armijo constant, Dennis & Schnabel §6.3).
 const ARMIJO: f64 = 1e-4;
 
-/// How to solve a system.
-#[derive(Debug, Clone, PartialEq)]
+/// How to solve a system. The default: default tolerances, unbounded, no history.
+#[derive(Debug, Clone, PartialEq, Default)]
 pub struct SystemOptions {
     /// Step tolerance per unknown (`x_abs + x_rel·|x_i|`), residual tolerance on the
     /// largest |F_i|, and the budget of evaluations of F (each evaluation is one call
@@ -23,16 +23,6 @@ pub struct SystemOptions {
     pub bounds: Vec<Bounds>,
     /// Keep one [`SystemHistoryRow`] per evaluation.
     pub record_history: bool,
-}
-
-impl Default for SystemOptions {
-    fn default() -> Self {
-        SystemOptions {
-            tol: Tolerances::default(),
-            bounds: Vec::new(),
-            record_history: false,
-        }
-    }
 }
 
 /// One row per evaluation of F.
@@ -70,9 +60,12 @@ pub struct SystemSolution {
 ///
 /// Algorithm (Broyden's method with a line search):
 /// 1. Evaluate F(x₀) and build the initial Jacobian B₀ by forward differences, one
-///    evaluation per unknown, with step h_j = √eps·|x_j| (√eps when x_j = 0), taken
-///    backwards when a forward step would leave the bounds. √eps balances truncation
-///    against rounding error for a forward difference (Dennis & Schnabel §5.4).
+///    evaluation per unknown, with step h_j = √eps·typ_j, taken backwards when a
+///    forward step would leave the bounds. typ_j, the unknown's typical size, is the
+///    larger of |x_j| and its starting |x_j| (else the largest |x_k| of any unknown,
+///    else 1), so an unknown passing near zero keeps a usable step. √eps balances
+///    truncation against rounding error for a forward difference (Dennis & Schnabel
+///    §5.4, with typ_j in place of their typx).
 /// 2. Solve B s = −F by Gaussian elimination with partial pivoting.
 /// 3. Try x + λs with λ = 1, projected into the bounds. Accept it when
 ///    ½‖F(x + λs)‖² <= (1 − 2·1e-4·λ)·½‖F(x)‖²; otherwise halve λ, up to ten times
@@ -83,8 +76,8 @@ pub struct SystemSolution {
 ///    current point once; if that does not help either, stop.
 ///
 /// Stops: converged on residual when max |F_i| <= f_abs, exact zero when F = 0, on step
-/// when a full step (λ = 1) that reduced ‖F‖ is within `x_abs + x_rel·|x_i|` in every
-/// unknown. Otherwise: [`Status::BudgetSpent`], [`Status::Flat`] (singular Jacobian
+/// when a full step (λ = 1) that did not increase ‖F‖ is within `x_abs + x_rel·typ_i` in
+/// every unknown (typ_i as for the Jacobian, so an unknown whose root is 0 still stops). Otherwise: [`Status::BudgetSpent`], [`Status::Flat`] (singular Jacobian
 /// even from fresh differences), [`Status::Stagnated`] (no decrease of ‖F‖ along the
 /// step even with a fresh Jacobian), [`Status::NonFinite`] (F not finite at the start,
 /// or wherever the search looked), [`Status::StuckAtBound`] (the bounds cut the step to
@@ -170,6 +163,7 @@ pub fn solve_system(
         evaluations: 0,
         history: Vec::new(),
         seen: Vec::new(),
+        x0: x0.to_vec(),
     };
     Ok(run.solve(x0))
 }
@@ -184,6 +178,7 @@ struct Run<F> {
     history: Vec<SystemHistoryRow>,
     /// Every evaluated point, to refuse repeats.
     seen: Vec<Vec<f64>>,
+    x0: Vec<f64>,
 }
 
 fn norm(v: &[f64]) -> f64 {
@@ -206,6 +201,26 @@ enum Eval {
 }
 
 impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
+    /// Unknown j's typical size: its current or starting magnitude, else the largest
+    /// magnitude of any unknown now or at the start, else 1.
+    fn typical(&self, x: &[f64], j: usize) -> f64 {
+        let t = x[j].abs().max(self.x0[j].abs());
+        if t > 0.0 {
+            return t;
+        }
+        let overall = x.iter().chain(&self.x0).fold(0.0f64, |m, v| m.max(v.abs()));
+        if overall > 0.0 {
+            overall
+        } else {
+            1.0
+        }
+    }
+
+    /// The step tolerance of unknown j.
+    fn x_tol(&self, x: &[f64], j: usize) -> f64 {
+        self.tol.x_abs + self.tol.x_rel * self.typical(x, j)
+    }
+
     fn eval(&mut self, x: &[f64], kind: StepKind) -> Eval {
         if self.seen.iter().any(|p| p.as_slice() == x) {
             return Eval::Repeat;
@@ -252,11 +267,8 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
         let n = self.n;
         let mut jac = vec![0.0; n * n];
         for j in 0..n {
-            let base = if x[j] != 0.0 {
-                f64::EPSILON.sqrt() * x[j].abs()
-            } else {
-                f64::EPSILON.sqrt()
-            };
+            let typical = self.typical(x, j);
+            let base = f64::EPSILON.sqrt() * typical;
             let mut done = false;
             for attempt in 0..4 {
                 let h = base * [1.0, 1.5, 2.5, 4.0][attempt];
@@ -357,7 +369,7 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
                         // worse is accepted: at the root, F is rounding noise and
                         // cannot decrease further.
                         let tiny = t == 0
-                            && (0..n).all(|i| (trial[i] - x[i]).abs() <= self.tol.x_tol(trial[i]));
+                            && (0..n).all(|i| (trial[i] - x[i]).abs() <= self.x_tol(&trial, i));
                         if !ft_norm.is_finite() {
                             nonfinite = true;
                         } else if ft_norm * ft_norm
@@ -404,7 +416,7 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
             };
             iterations += 1;
             let s: Vec<f64> = (0..n).map(|i| xn[i] - x[i]).collect();
-            let small_step = (0..n).all(|i| s[i].abs() <= self.tol.x_tol(xn[i]));
+            let small_step = (0..n).all(|i| s[i].abs() <= self.x_tol(&xn, i));
             // Broyden's good update: B += (y - B s) sᵀ / (sᵀ s).
             let ss: f64 = s.iter().map(|v| v * v).sum();
             if ss > 0.0 {
@@ -435,13 +447,13 @@ pub fn solve_dense(a: &[f64], b: &[f64], n: usize) -> Option<Vec<f64>> {
     let mut m = a.to_vec();
     let mut r = b.to_vec();
     let scale = m.iter().fold(0.0f64, |s, v| s.max(v.abs()));
-    if !(scale > 0.0) || !scale.is_finite() {
+    if scale.is_nan() || scale <= 0.0 || !scale.is_finite() {
         return None;
     }
     for k in 0..n {
         let p = (k..n).max_by(|&i, &j| m[i * n + k].abs().total_cmp(&m[j * n + k].abs()))?;
         let pivot = m[p * n + k];
-        if !(pivot.abs() > scale * f64::EPSILON * n as f64) {
+        if pivot.is_nan() || pivot.abs() <= scale * f64::EPSILON * n as f64 {
             return None;
         }
         if p != k {

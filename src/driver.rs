@@ -294,7 +294,7 @@ impl Stepper {
         };
         self.evaluations += 1;
         self.told.push((x, fx));
-        if fx.is_finite() && self.best.map_or(true, |(_, fb)| fx.abs() < fb.abs()) {
+        if fx.is_finite() && self.best.is_none_or(|(_, fb)| fx.abs() < fb.abs()) {
             self.best = Some((x, fx));
         }
         if self.options.record_history {

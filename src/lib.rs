@@ -10,7 +10,7 @@
 
 pub mod api;
 #[cfg(target_arch = "wasm32")]
-mod bindings;
+pub mod bindings;
 pub mod broyden;
 pub mod driver;
 pub mod equations;

@@ -114,7 +114,7 @@ pub fn roots_in_range(
 ) -> Result<RangeRoots, InputError> {
     require_finite(lo, "range lower end")?;
     require_finite(hi, "range upper end")?;
-    if !(lo < hi) {
+    if lo >= hi {
         return Err(InputError::new(
             "bad-range",
             format!("the range lower end {lo} must be below the upper end {hi}"),
@@ -370,7 +370,7 @@ fn parabola_minimum(x0: f64, y0: f64, x1: f64, y1: f64, x2: f64, y2: f64) -> Opt
     let d01 = (y1 - y0) / (x1 - x0);
     let d12 = (y2 - y1) / (x2 - x1);
     let a = (d12 - d01) / (x2 - x0);
-    if !(a > 0.0) {
+    if a.is_nan() || a <= 0.0 {
         return None;
     }
     let b = d01 - a * (x0 + x1);

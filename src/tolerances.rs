@@ -47,7 +47,7 @@ impl Tolerances {
             ("x_rel", self.x_rel),
             ("f_abs", self.f_abs),
         ] {
-            if !(v >= 0.0) || v.is_infinite() {
+            if v.is_nan() || v < 0.0 || v.is_infinite() {
                 return Err(InputError::new(
                     "bad-tolerance",
                     format!("tolerance {name} must be a finite number >= 0, got {v}"),

@@ -319,3 +319,197 @@ fn unit_conversion_through_the_facade() {
         .iter()
         .any(|d| d["dimension"] == "length"));
 }
+
+// ---------------------------------------------------------------------------------------
+// Text equations, templates, scans, sweeps and systems
+
+#[test]
+fn wallis_cubic_natively() {
+    // Wallis's cubic x³ − 2x − 5 = 0 has its real root at 2.0945514815423265 (a classic
+    // test equation; value recalled from memory). tests/wasm checks the same in wasm32.
+    let out = parse(
+        &api::solve_equation(
+            r#"{"equations":"x^3 - 2*x - 5","unknowns":[{"name":"x","guesses":[2,3]}]}"#,
+        )
+        .unwrap(),
+    );
+    assert!((f64_of(&out["root"]) - 2.094_551_481_542_326_5).abs() < 1e-11);
+    assert_eq!(out["unknowns"]["x"], out["root"]);
+}
+
+#[test]
+fn equation_requests_are_checked() {
+    check_error(
+        api::solve_equation("{}"),
+        "bad-request",
+        &["request.equations", "missing"],
+    );
+    check_error(
+        api::solve_equation(r#"{"equations":"x^2 = a","knowns":{"a":"2"}}"#),
+        "bad-request",
+        &["request.knowns.a", "\"2\""],
+    );
+    check_error(
+        api::solve_equation(r#"{"equations":"x^2 = a","knowns":{"a":2},"unknowns":[7]}"#),
+        "bad-request",
+        &["request.unknowns[0]"],
+    );
+    check_error(
+        api::solve_equation(&format!(
+            "{{\"equations\":\"{}\"}}",
+            "x".repeat(api::MAX_EQUATION_CHARS + 1)
+        )),
+        "equation-too-long",
+        &["limit"],
+    );
+    let e = api::solve_equation(r#"{"equations":"y = 2*x +","knowns":{"y":1}}"#)
+        .err()
+        .unwrap();
+    assert_eq!(e.position, Some(9));
+}
+
+#[test]
+fn check_equation_reports_variables_or_a_positioned_error() {
+    let ok = parse(&api::check_equation("A := pi*D^2/4\nQ = V*A"));
+    assert_eq!(ok["ok"], true);
+    assert_eq!(ok["variables"], serde_json::json!(["D", "Q", "V"]));
+    assert_eq!(ok["definitions"], serde_json::json!(["A"]));
+    let bad = parse(&api::check_equation("y = 2*x +"));
+    assert_eq!(bad["ok"], false);
+    assert_eq!(bad["position"], 9);
+    assert!(bad["caret"].as_str().unwrap().ends_with('^'));
+}
+
+#[test]
+fn template_with_units_matches_swamee_jain() {
+    // Colebrook (1939) solved for f; Swamee and Jain (1976) explicit form is stated to be
+    // within about 1 % of it.
+    let out = parse(
+        &api::solve_template(
+            r#"{"id":"pipes.colebrook","values":{"Re":360000,"eps":{"value":0.15,"unit":"mm"},"D":[300,"mm"]},"unknown":"f"}"#,
+        )
+        .unwrap(),
+    );
+    assert_eq!(out["converged"], true);
+    let f = f64_of(&out["value"]);
+    let (re, eps, d) = (360000.0f64, 0.15e-3, 0.3);
+    let f_sj = 0.25 / (eps / (3.7 * d) + 5.74 / re.powf(0.9)).log10().powi(2);
+    assert!((f - f_sj).abs() < 0.015 * f_sj, "{f} vs {f_sj}");
+    check_error(
+        api::solve_template(
+            r#"{"id":"pipes.colebrook","values":{"D":{"value":"x","unit":"mm"}},"unknown":"f"}"#,
+        ),
+        "bad-request",
+        &["request.values.D.value"],
+    );
+    check_error(
+        api::solve_template(r#"{"id":"pipes.colebrook","values":{"Q":1},"unknown":"f"}"#),
+        "unknown-variable",
+        &["request.values.Q"],
+    );
+}
+
+#[test]
+fn catalogue_uses_camel_case() {
+    let list = parse(&api::catalogue());
+    let text = list.to_string();
+    assert!(!list.as_array().unwrap().is_empty());
+    assert!(!text.contains("\"unknowns_reason\""));
+}
+
+#[test]
+fn roots_in_a_range_of_text_and_of_a_closure() {
+    // x² = 2 on [-3, 3]: ±√2 (reference: Rust std f64::sqrt).
+    let out = parse(&api::find_roots(r#"{"equations":"x^2 = 2","range":[-3,3]}"#).unwrap());
+    let xs: Vec<f64> = out["roots"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|r| f64_of(&r["x"]))
+        .collect();
+    assert_eq!(xs.len(), 2);
+    assert!((xs[0] + 2f64.sqrt()).abs() < 1e-12 && (xs[1] - 2f64.sqrt()).abs() < 1e-12);
+    let out =
+        parse(&api::find_roots_function(r#"{"range":[-1,7],"samples":100}"#, f64::sin).unwrap());
+    assert_eq!(out["roots"].as_array().unwrap().len(), 3);
+    assert_eq!(out["samples"], 100);
+    check_error(
+        api::find_roots_function(r#"{"range":[0,1],"samples":1e12}"#, f64::sin),
+        "bad-request",
+        &["request.samples"],
+    );
+}
+
+#[test]
+fn sweep_continues_from_the_previous_root() {
+    let out = parse(
+        &api::sweep(r#"{"equations":"x^2 = a","input":"a","from":1,"to":100,"points":12,"guesses":[1,2],"bounds":[0,null]}"#)
+            .unwrap(),
+    );
+    let a = out["input"].as_array().unwrap();
+    let roots = out["root"].as_array().unwrap();
+    assert_eq!(a.len(), 12);
+    for (a, r) in a.iter().zip(roots) {
+        // Reference: Rust std f64::sqrt.
+        assert!((f64_of(r) - f64_of(a).sqrt()).abs() < 1e-10);
+    }
+    // Continuation: starting each solve from the previous root costs fewer evaluations
+    // than starting every solve from the first guesses.
+    let total = out["totalEvaluations"].as_u64().unwrap();
+    let cold: u64 = a
+        .iter()
+        .map(|a| {
+            let req = format!(
+                r#"{{"equations":"x^2 = a","knowns":{{"a":{a}}},"unknowns":[{{"name":"x","guesses":[1,2],"bounds":[0,null]}}]}}"#
+            );
+            parse(&api::solve_equation(&req).unwrap())["evaluations"].as_u64().unwrap()
+        })
+        .sum();
+    assert!(total < cold, "continued {total} vs cold {cold}");
+    check_error(
+        api::sweep(r#"{"equations":"x^2 = a","input":"a","from":1,"to":2,"points":1}"#),
+        "bad-request",
+        &["request.points"],
+    );
+}
+
+#[test]
+fn system_of_a_closure() {
+    // x² + y² = 4 and x = y: x = y = √2 (reference: Rust std f64::sqrt).
+    let out = parse(
+        &api::solve_system_function(r#"{"x0":[1,2],"history":true}"#, |v, out| {
+            out[0] = v[0] * v[0] + v[1] * v[1] - 4.0;
+            out[1] = v[0] - v[1];
+        })
+        .unwrap(),
+    );
+    assert_eq!(out["converged"], true);
+    for r in out["roots"].as_array().unwrap() {
+        assert!((f64_of(r) - 2f64.sqrt()).abs() < 1e-9);
+    }
+    assert_eq!(
+        out["history"].as_array().unwrap().len() as u64,
+        out["evaluations"].as_u64().unwrap()
+    );
+    let noop = |_: &[f64], _: &mut [f64]| {};
+    check_error(
+        api::solve_system_function(r#"{"x0":[]}"#, noop),
+        "bad-request",
+        &["options.x0"],
+    );
+    check_error(
+        api::solve_system_function(r#"{"x0":[1,"NaN"]}"#, noop),
+        "non-finite-input",
+        &["options.x0[1]"],
+    );
+    check_error(
+        api::solve_system_function(r#"{"x0":[1,2],"bounds":[[0,1]]}"#, noop),
+        "bad-request",
+        &["options.bounds"],
+    );
+    check_error(
+        api::solve_system_function(r#"{"x0":[5],"bounds":[[0,1]]}"#, noop),
+        "start-outside-bounds",
+        &["options.x0[0]"],
+    );
+}

@@ -172,3 +172,30 @@ proptest! {
         }
     }
 }
+
+#[test]
+fn long_legal_inputs_are_read_and_solved_without_deep_recursion() {
+    // Near the size limit, shapes that would overflow a recursive parser or compiler:
+    // long operator chains, a long chain of definitions, many equations.
+    let mut defs = String::from("a0 := x\n");
+    for i in 1..12_000 {
+        defs.push_str(&format!("a{i} := a{}+1\n", i - 1));
+    }
+    defs.push_str("a11999 = 3\n");
+    let cases = [
+        ("x+".repeat(120_000) + "x", Some(0.0)),
+        ("x^".repeat(120_000) + "x - 1", Some(1.0)),
+        ("-".repeat(240_000) + "x - 2", Some(2.0)),
+        (defs, Some(3.0 - 11_999.0)),
+    ];
+    for (text, root) in cases {
+        let start = Instant::now();
+        let set = EquationSet::parse(&text).unwrap();
+        let s = solve_set(&set, &[], &[UnknownSpec::named("x")], &Options::default(), true).unwrap();
+        if let Some(r) = root {
+            assert!(s.converged, "{:?}", s.status);
+            assert!((s.unknowns[0].1 - r).abs() <= 1e-9 * r.abs().max(1.0), "{:?}", s.unknowns);
+        }
+        assert!(start.elapsed() < HANG * 4, "took {:?}", start.elapsed());
+    }
+}

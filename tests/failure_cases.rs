@@ -245,3 +245,84 @@ fn touching_root_is_accepted_only_when_f_is_tiny() {
         (x - 1.0) * (x - 1.0) + 1e-6
     });
 }
+
+#[test]
+fn each_failure_has_its_own_status() {
+    // Functions: common practice, no source. Each run of the default must end not
+    // converged, with the status named, and a diagnosis that says what to try next.
+    let bounded = |lo: f64, hi: f64| Options {
+        bounds: Bounds::new(lo, hi).unwrap(),
+        ..options(MethodKind::Auto)
+    };
+    let budget = Options {
+        tol: tacit::Tolerances {
+            max_evals: 5,
+            ..tacit::Tolerances::default()
+        },
+        ..options(MethodKind::Auto)
+    };
+    type F = fn(f64) -> f64;
+    type Case = (&'static str, Options, (f64, f64), F, Status);
+    let cases: &[Case] = &[
+        (
+            "x + 5 in [0, 10]",
+            bounded(0.0, 10.0),
+            (2.0, 3.0),
+            |x| x + 5.0,
+            Status::StuckAtBound,
+        ),
+        (
+            "x^2 + 1",
+            options(MethodKind::Auto),
+            (0.3, 0.5),
+            |x| x * x + 1.0,
+            Status::Oscillating,
+        ),
+        (
+            "1/x",
+            options(MethodKind::Auto),
+            (1.0, 2.0),
+            |x| 1.0 / x,
+            Status::Diverging,
+        ),
+        (
+            "x^3 - 1e6, 5 evaluations",
+            budget,
+            (1.0, 2.0),
+            |x| x.powi(3) - 1e6,
+            Status::BudgetSpent,
+        ),
+        (
+            "constant",
+            options(MethodKind::Auto),
+            (6.0, 8.0),
+            |_| 5.0,
+            Status::Flat,
+        ),
+        (
+            "(x-1)^2 + 1e-6",
+            options(MethodKind::Auto),
+            (2.0, 3.0),
+            |x| (x - 1.0) * (x - 1.0) + 1e-6,
+            Status::NoSignChange,
+        ),
+        (
+            "sqrt x + 1",
+            options(MethodKind::Auto),
+            (4.0, 3.0),
+            |x| x.sqrt() + 1.0,
+            Status::NonFinite,
+        ),
+    ];
+    for (name, opts, (a, b), f, want) in cases {
+        let s = solve(Start::Guesses(*a, *b), opts, f).unwrap();
+        assert_eq!(s.status, *want, "{name}: {s:?}");
+        assert!(!s.converged, "{name}");
+        assert!(
+            s.message().starts_with("Not converged"),
+            "{name}: {}",
+            s.message()
+        );
+        assert!(s.evaluations <= opts.tol.max_evals, "{name}");
+    }
+}

@@ -9,7 +9,9 @@ use tacit::{solve, Bounds, MethodKind, Options, Start, Tolerances};
 
 /// Test functions: common practice, no source; the NaN and no-root ones follow the
 /// failure cases of tests/failure_cases.rs.
-const FUNCTIONS: &[(&str, fn(f64) -> f64)] = &[
+type Function = fn(f64) -> f64;
+
+const FUNCTIONS: &[(&str, Function)] = &[
     ("x^2 - 2", |x| x * x - 2.0),
     ("cos x - x", |x| x.cos() - x),
     ("x^3 - 2x - 5", |x| x * x * x - 2.0 * x - 5.0),
@@ -37,7 +39,8 @@ const STARTS: &[(f64, f64)] = &[
     (100.0, 1e4),
 ];
 
-/// Returns (number of calls, first repeated x if any).
+/// Solves with a recording f and checks the record: no repeats, inside the bounds,
+/// and as many calls as reported.
 fn check_scalar(method: MethodKind, start: Start, bounds: Bounds, name: &str, f: fn(f64) -> f64) {
     let seen = RefCell::new(Vec::<f64>::new());
     let options = Options {

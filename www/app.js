@@ -12,6 +12,7 @@ import { loadSaved, writeSaved, exportText, importText, newId, loadExternal, wri
 import { showResult, showHistory, showSensitivities, hideResults, kindWords } from './results.js';
 import { plot } from './plot.js';
 import { wasmBytes } from './wasm-bytes.js';
+import { runSweepJob } from './sweep-run.js';
 
 const CAUTION = 'Results support, and do not replace, checks by a licensed professional under local codes.';
 
@@ -91,15 +92,19 @@ function renderSetup() {
   byId('sweep').hidden = S.mode === 'external';
   byId('roots').hidden = true;
   byId('start-bracket-label').hidden = S.mode === 'template';
+  byId('start-default-label').hidden = S.mode === 'external';
+  byId('start').hidden = S.mode === 'external' && Boolean(app.stepper);
   app.nav?.select(S.mode === 'template' ? S.template : null);
   const caution = byId('caution');
   const notes = clear(byId('notes'));
+  byId('calc-source').textContent = '';
   if (S.mode === 'template' && t) {
     byId('calc-field').textContent = t.field;
     byId('calc-title').textContent = t.title;
     byId('calc-summary').textContent = t.summary;
     showEquation(t.equations);
     for (const n of t.notes) notes.append(h('li', null, n));
+    byId('calc-source').textContent = t.source ? `Source: ${t.source}` : '';
     caution.hidden = !t.caution;
     caution.textContent = t.caution;
   } else if (S.mode === 'custom') {
@@ -129,6 +134,17 @@ function renderSetup() {
 
 function renderVarsTable() {
   const tbody = clear(byId('vars').tBodies[0]);
+  const reason = byId('unknowns-reason');
+  const tt = currentTemplate();
+  reason.textContent = tt?.allowedUnknowns && tt.allowedUnknowns.length < tt.variables.length ? tt.unknownsReason : '';
+  reason.hidden = !reason.textContent;
+  const listBox = byId('list-values');
+  listBox.hidden = !tt?.list;
+  if (tt?.list) {
+    byId('list-label').textContent = `${tt.list.symbol}: ${tt.list.meaning}${tt.list.unit ? ` (${tt.list.unit})` : ''}, separated by commas or spaces`;
+    const kept = app.S.values[tt.list.symbol]?.v;
+    byId('list-text').value = kept ?? (Array.isArray(tt.list.values) ? tt.list.values.join(', ') : '');
+  }
   const vars = currentVariables();
   const S = app.S;
   const custom = S.mode === 'custom';
@@ -146,7 +162,7 @@ function renderVarsTable() {
     let unitCell;
     if (v.units.length) {
       const sel = h('select', { id: `unit-${v.symbol}`, 'aria-label': `Unit of ${v.symbol}` });
-      for (const u of v.units) sel.append(h('option', { value: u }, u));
+      for (const u of v.units) sel.append(h('option', { value: u }, u === '1' ? '1 (ratio)' : u));
       sel.value = entry.u && v.units.includes(entry.u) ? entry.u : v.unit;
       sel.addEventListener('change', () => {
         S.values[v.symbol] = { v: S.values[v.symbol]?.v ?? input.value, u: sel.value };
@@ -178,7 +194,12 @@ function renderVarsTable() {
       renderSweepInputs();
       writeUrl();
     });
-    const findCell = h('td', { class: 'find', 'data-print': isUnknown ? 'found' : '' }, pickEl);
+    const allowed = S.mode !== 'template' || !currentTemplate()?.allowedUnknowns || currentTemplate().allowedUnknowns.includes(v.symbol);
+    if (!allowed) {
+      pickEl.disabled = true;
+      pickEl.setAttribute('aria-describedby', 'unknowns-reason');
+    }
+    const findCell = h('td', { class: 'find', 'data-print': isUnknown ? 'solved for' : '' }, pickEl);
     tbody.append(
       h('tr', { class: isUnknown ? 'is-unknown' : '', 'data-symbol': v.symbol },
         h('td', { class: 'sym' }, symbolMathML(v.symbol)),
@@ -189,6 +210,7 @@ function renderVarsTable() {
       ),
     );
     input.disabled = isUnknown;
+    input.readOnly = false;
     if (isUnknown) input.setAttribute('aria-description', 'This is the unknown; its value is found by the solver');
   }
 }
@@ -329,6 +351,24 @@ function readKnowns() {
   return out;
 }
 
+const asUnit = (u) => (typeof u === 'string' && u ? u : undefined);
+
+function readList(t) {
+  const text = app.S.values[t.list.symbol]?.v ?? byId('list-text').value;
+  const parts = text.split(/[\s,;]+/).filter(Boolean);
+  const out = [];
+  parts.forEach((p, i) => {
+    const r = parseNumber(p);
+    if (r.error) {
+      byId('list-text').setAttribute('aria-invalid', 'true');
+      throw new FormError(`${t.list.symbol}, item ${i + 1}: ${r.error}`);
+    }
+    out.push(r.value);
+  });
+  if (out.length < 2) throw new FormError(`${t.list.symbol} needs at least two values.`);
+  return out;
+}
+
 function settingsFacts(req) {
   const t = req.tolerances ?? {};
   const start = req.bracket ? `bracket [${req.bracket.join(', ')}]` : req.guesses ? `guesses ${req.guesses.join(', ')}` : 'default guesses';
@@ -350,7 +390,10 @@ function buildRequest() {
     if (!t) throw new FormError('Choose a template from the catalogue first.');
     if (!S.unknown) throw new FormError('Mark which quantity to find.');
     const unitSel = document.getElementById(`unit-${S.unknown}`);
-    const req = { id: t.id, values: readKnowns(), unknown: S.unknown, history: true, sensitivities: true, ...base };
+    // The array form of values, which also carries a list input as repeated entries.
+    const values = Object.entries(readKnowns()).map(([symbol, { value, unit }]) => ({ symbol, value, unit }));
+    if (t.list) for (const value of readList(t)) values.push({ symbol: t.list.symbol, value, unit: asUnit(t.list.unit) });
+    const req = { id: t.id, values, unknown: S.unknown, history: true, sensitivities: true, ...base };
     if (unitSel) req.resultUnit = unitSel.value;
     return { kind: 'template', req };
   }
@@ -408,7 +451,7 @@ function presentResult(built, r) {
   let xLabel = 'x';
   if (built.kind === 'template') {
     answers = [{ symbol: S.unknown, value: r.value, unit: r.unit }];
-    xLabel = `${S.unknown}${r.unit ? ` (${historyUnit(r)})` : ''}`;
+    xLabel = `${S.unknown}${r.unit && r.unit !== '1' ? ` (${historyUnit(r)})` : ''}`;
   } else {
     answers = Object.entries(r.unknowns).map(([symbol, value]) => ({ symbol, value, unit: '' }));
     xLabel = unknownList()[0] ?? 'x';
@@ -416,6 +459,7 @@ function presentResult(built, r) {
   const t = currentTemplate();
   showResult(r, {
     answers,
+    outputs: r.outputs ?? [],
     settings: settingsFacts(built.req),
     notes: r.notes ?? [],
     caution: r.caution || (t?.caution ?? ''),
@@ -425,7 +469,13 @@ function presentResult(built, r) {
   if (!history.length && r.systemHistory?.length) showSystemHistory(r.systemHistory);
   showSensitivities(r.sensitivities, meaningOf);
   showRootsCard(built, r);
-  byId('record-date').textContent = `${new Date().toLocaleString()} · tacit ${tacit.version}`;
+  byId('record-date').textContent = recordDate();
+}
+
+function recordDate() {
+  const d = new Date();
+  const p2 = (n) => String(n).padStart(2, '0');
+  return `${d.getFullYear()}-${p2(d.getMonth() + 1)}-${p2(d.getDate())} ${p2(d.getHours())}:${p2(d.getMinutes())} (local time) · tacit ${tacit.version}`;
 }
 
 /** The unit of the history's x values: the template's history is in the result unit. */
@@ -588,9 +638,9 @@ function scanTemplate(built, lo, hi) {
 const sweeper = { worker: null, ready: null, id: 0, busy: false };
 
 function startWorker() {
-  const src = byId('sweep-worker-source').textContent;
+  const src = byId('page-script').textContent;
   const url = URL.createObjectURL(new Blob([src], { type: 'text/javascript' }));
-  const w = new Worker(url, { type: 'module', name: 'tacit-sweep' });
+  const w = new Worker(url, { name: 'tacit-sweep' });
   URL.revokeObjectURL(url);
   probe.workerStarts++;
   sweeper.worker = w;
@@ -606,6 +656,7 @@ function startWorker() {
     ev.preventDefault();
     replaceWorker(`the sweep worker failed (${ev.message || 'script error'})`);
   });
+  sweeper.ready.then(() => { sweeper.failures = 0; }, () => {});
   w.postMessage({ type: 'init', wasm: app.wasm.slice().buffer });
 }
 
@@ -613,6 +664,14 @@ function replaceWorker(why) {
   sweeper.worker?.terminate();
   const wasBusy = sweeper.busy;
   endSweepUi();
+  sweeper.failures = (sweeper.failures ?? 0) + 1;
+  if (sweeper.failures > 2) {
+    // Failing again and again at start-up: stop trying rather than loop.
+    byId('sweep-run').disabled = true;
+    byId('sweep-status').textContent = `Sweeps are not available in this browser: ${why}.`;
+    notify(`Sweeps are not available in this browser (${why}); solving is not affected.`);
+    return;
+  }
   startWorker();
   byId('sweep-status').textContent = `${why}. A fresh worker was started${wasBusy ? '; run the sweep again' : ''}.`;
   notify(`Sweep: ${why}. The background solver was replaced with a fresh one; nothing else is affected.`);
@@ -652,7 +711,8 @@ function buildSweepJob() {
   if (!Number.isInteger(nRaw) || nRaw < 2 || nRaw > 100000) throw new FormError(`Sweep points must be a whole number from 2 to 100000, got ${S.sweep.n}.`);
   if (built.kind === 'template') {
     const req = { ...built.req, history: false, sensitivities: false };
-    return { job: { kind: 'template', request: req, input, from, to, points: nRaw }, input, unknown: S.unknown, unit: req.resultUnit ?? '', inputUnit: req.values[input]?.unit ?? '' };
+    const inputUnit = req.values.find((v) => v.symbol === input)?.unit ?? '';
+    return { job: { kind: 'template', request: req, input, from, to, points: nRaw }, input, unknown: S.unknown, unit: req.resultUnit ?? '', inputUnit: inputUnit === '1' ? '' : inputUnit };
   }
   if (unknownList().length !== 1) throw new FormError('A sweep solves for one unknown.');
   const knowns = { ...built.req.knowns };
@@ -703,6 +763,7 @@ function runSweep() {
         status.textContent = `${m.result.input.length} points in ${m.ms.toFixed(0)} ms, ${m.result.totalEvaluations} evaluations${failed ? `; ${failed} did not converge (marked)` : ''}.`;
         byId('sweep-csv').disabled = false;
       } else if (m.trapped) {
+        sweeper.failures = 0;
         replaceWorker(`the background solver stopped with an internal error (${m.message})`);
       } else {
         status.textContent = `The sweep could not run: ${m.message}`;
@@ -727,6 +788,7 @@ function drillWorkerTrap() {
     const onMsg = (ev) => {
       if (ev.data.id !== id) return;
       w.removeEventListener('message', onMsg);
+      sweeper.failures = 0;
       if (ev.data.trapped) replaceWorker(`the background solver stopped with an internal error (${ev.data.message})`);
       resolve(ev.data.trapped);
     };
@@ -735,6 +797,20 @@ function drillWorkerTrap() {
   });
 }
 probe.drillWorkerTrap = drillWorkerTrap;
+
+/** For the benchmark: the current sweep set-up with n points, run on the page thread. */
+probe.timeDirectSweep = (n) => {
+  const saved = app.S.sweep.n;
+  app.S.sweep.n = String(n);
+  try {
+    const { job } = buildSweepJob();
+    const t0 = performance.now();
+    runSweepJob(job);
+    return performance.now() - t0;
+  } finally {
+    app.S.sweep.n = saved;
+  }
+};
 
 function cancelSweep() {
   if (!sweeper.busy) return;
@@ -868,6 +944,7 @@ function tellExternal(ev) {
 
 function renderExternal() {
   const st = app.stepper;
+  byId('start').hidden = Boolean(st);
   const ask = byId('ext-ask');
   const prog = clear(byId('ext-progress'));
   byId('ext-discard').hidden = !st;
@@ -983,8 +1060,9 @@ async function importSaved(ev) {
 // ---- state in and out --------------------------------------------------------------
 
 /** Applies a validated state; anything that does not fit the current catalogue is named. */
-function applyState(st, source) {
-  const { state, problems } = validateState(st.v === undefined ? { ...st, v: 1 } : st);
+function applyState(st, source, earlier = []) {
+  const { state, problems: found } = validateState(st.v === undefined ? { ...st, v: 1 } : st);
+  const problems = [...earlier, ...found];
   if (state.mode === 'template') {
     const t = app.byId.get(state.template);
     if (!t) {
@@ -1005,6 +1083,7 @@ function applyState(st, source) {
       }
     }
   }
+  if (state.mode === 'external' && state.start.kind === 'default') state.start.kind = 'guesses';
   app.S = state;
   if (state.mode === 'external') {
     app.stepper?.free();
@@ -1053,7 +1132,7 @@ function loadFromHash() {
     notify(`This link's calculation could not be read: ${d.error}. Nothing from it was used; the page shows its starting calculation instead.`);
     return false;
   }
-  applyState(d.state, 'link');
+  applyState(d.state, 'link', d.problems);
   return true;
 }
 
@@ -1118,6 +1197,13 @@ function wire() {
     if (e.key === 'Enter' && e.target.matches('input[type=text]') && app.S.mode !== 'external') solve();
   });
   byId('roots-scan').addEventListener('click', scanRoots);
+  byId('list-text').addEventListener('input', (e) => {
+    const t = currentTemplate();
+    if (!t?.list) return;
+    app.S.values[t.list.symbol] = { v: e.target.value, u: '' };
+    e.target.removeAttribute('aria-invalid');
+    writeUrl();
+  });
   byId('sweep-input').addEventListener('change', (e) => { app.S.sweep.input = e.target.value; writeUrl(); });
   for (const k of ['from', 'to', 'n']) byId(`sweep-${k}`).addEventListener('input', (e) => { app.S.sweep[k] = e.target.value; writeUrl(); });
   byId('sweep-run').addEventListener('click', () => { app.S.sweep.input = byId('sweep-input').value; runSweep(); });
@@ -1146,7 +1232,7 @@ function wire() {
   byId('print-record').addEventListener('click', () => window.print());
   let openedForPrint = false;
   window.addEventListener('beforeprint', () => {
-    byId('record-date').textContent = `${new Date().toLocaleString()} · tacit ${tacit.version}`;
+    byId('record-date').textContent = recordDate();
     openedForPrint = !byId('advanced').open;
   });
   window.addEventListener('afterprint', () => { if (openedForPrint) byId('advanced').open = false; });

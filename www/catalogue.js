@@ -8,6 +8,7 @@ const pick = (o, ...keys) => {
   return undefined;
 };
 const asText = (v) => (v === undefined || v === null ? '' : String(v));
+const capitalize = (s) => s.charAt(0).toUpperCase() + s.slice(1);
 const asList = (v) => (Array.isArray(v) ? v.map(asText) : v ? [asText(v)] : []);
 
 function normalizeVariable(v) {
@@ -35,13 +36,17 @@ export function normalizeTemplate(t) {
   return {
     id: asText(t.id),
     title: asText(pick(t, 'title', 'name', 'label')) || asText(t.id),
-    field: asText(pick(t, 'field', 'group', 'category', 'area')) || 'Other',
+    field: capitalize(asText(pick(t, 'field', 'group', 'category', 'area')) || 'other'),
     summary: asText(pick(t, 'summary', 'description', 'purpose')),
     equations: asText(pick(t, 'equations', 'equation', 'text', 'source')),
     variables: vars,
     defaultUnknown: asText(pick(t, 'defaultUnknown', 'default_unknown', 'unknown', 'solveFor')) || vars[0]?.symbol || '',
     notes: asList(pick(t, 'notes', 'validity', 'validityNotes')),
     caution: pick(t, 'caution') ? asText(t.caution) : '',
+    allowedUnknowns: Array.isArray(t.unknowns) && t.unknowns.length ? t.unknowns.map(asText) : null,
+    unknownsReason: asText(pick(t, 'unknowns_reason', 'unknownsReason')),
+    source: asText(t.source),
+    list: t.list && typeof t.list === 'object' ? t.list : null,
     keywords: asList(pick(t, 'keywords', 'tags')),
     raw: t,
   };
@@ -80,13 +85,19 @@ export function buildCatalogueNav(container, emptyNote, templates, onPick) {
       items.push({ t, li });
     }
     const count = h('span', { class: 'count' }, ` (${list.length})`);
-    const det = h('details', { open: true }, h('summary', null, field, count), ul);
+    const det = h('details', null, h('summary', null, field, count), ul);
     container.append(det);
     groupEls.push({ det, items, count });
   }
+  let current = null;
+  const openCurrent = () => {
+    for (const g of groupEls) if (g.items.some(({ t }) => t.id === current)) g.det.open = true;
+  };
   return {
     select(id) {
+      current = id;
       for (const [tid, b] of buttons) b.setAttribute('aria-current', tid === id ? 'true' : 'false');
+      openCurrent();
     },
     filter(text) {
       const words = text.toLowerCase().split(/\s+/).filter(Boolean);
@@ -99,11 +110,12 @@ export function buildCatalogueNav(container, emptyNote, templates, onPick) {
           if (ok) n++;
         }
         g.det.hidden = n === 0;
-        if (n > 0 && words.length) g.det.open = true;
+        g.det.open = words.length > 0 && n > 0;
         g.count.textContent = ` (${n})`;
         any ||= n > 0;
       }
       emptyNote.hidden = any;
+      if (words.length === 0) openCurrent();
     },
   };
 }

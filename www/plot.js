@@ -85,7 +85,8 @@ export function plot(spec) {
   svg.append(s('title', {}, spec.title));
   const frame = s('g', { class: 'axes' });
   frame.append(s('rect', { x: PAD.l, y: PAD.t, width: W - PAD.l - PAD.r, height: H - PAD.t - PAD.b, class: 'frame' }));
-  for (const t of ticks(x0, x1, 6)) {
+  const xt = spec.integerX ? ticks(x0, x1, 6).filter((v) => Number.isInteger(v)) : ticks(x0, x1, 6);
+  for (const t of xt) {
     const x = px(t);
     frame.append(s('line', { x1: x, x2: x, y1: PAD.t, y2: H - PAD.b, class: 'grid' }));
     frame.append(s('text', { x, y: H - PAD.b + 16, class: 'tick', 'text-anchor': 'middle' }, label(t)));

@@ -36,7 +36,7 @@ export function showResult(r, view) {
       h('p', { class: 'answer' },
         h('span', { class: 'what' }, symbolMathML(a.symbol), ' ='),
         h('output', { class: 'big-number', 'data-testid': `answer-${a.symbol}`, 'data-value': full(a.value), title: full(a.value) }, fmt(a.value, 10)),
-        h('span', { class: 'unit' }, a.unit || ''),
+        h('span', { class: 'unit' }, a.unit && a.unit !== '1' ? a.unit : ''),
       ),
     );
   }
@@ -58,14 +58,21 @@ export function showResult(r, view) {
   if (r.sensitivityEvaluations) dl.append(fact('Evaluations for sensitivities', String(r.sensitivityEvaluations)));
   for (const [term, text] of view.settings) dl.append(fact(term, text));
   body.append(dl);
-  const defs = r.definitions ? Object.entries(r.definitions) : [];
+  if (view.outputs?.length) {
+    const tb = h('tbody');
+    for (const o of view.outputs) {
+      tb.append(h('tr', null, h('td', null, symbolMathML(o.symbol)), h('td', null, o.meaning ?? ''), h('td', { class: 'mono', title: full(o.value) }, fmt(o.value, 8)), h('td', null, o.unit && o.unit !== '1' ? o.unit : '')));
+    }
+    body.append(h('div', { class: 'table-wrap' }, h('table', { class: 'numbers outputs' }, h('caption', null, 'Other quantities at the solution'), tb)));
+  }
+  const defs = r.definitions && !view.outputs?.length ? Object.entries(r.definitions) : [];
   if (defs.length) {
     const tb = h('tbody');
     for (const [name, v] of defs) tb.append(h('tr', null, h('td', null, symbolMathML(name)), h('td', { class: 'mono', title: full(v) }, fmt(v, 8))));
     body.append(h('div', { class: 'table-wrap' }, h('table', { class: 'numbers' }, h('caption', null, 'Intermediate quantities at the solution'), tb)));
   }
   if (view.notes?.length) {
-    body.append(h('h3', null, 'Validity notes'), h('ul', { class: 'notes' }, view.notes.map((n) => h('li', null, n))));
+    body.append(h('h3', null, 'Notes on this result'), h('ul', { class: 'notes' }, view.notes.map((n) => h('li', null, n))));
   }
   if (view.caution) body.append(h('p', { class: 'caution', role: 'note' }, view.caution));
 }
@@ -90,7 +97,7 @@ export function showHistory(rows, curve, xLabel) {
         h('td', null, String(r.k)),
         h('td', { title: full(r.x) }, fmt(r.x, 12)),
         h('td', { title: full(r.fx) }, fmt(r.fx, 6)),
-        h('td', { title: full(r.step) }, Number.isNaN(r.step) ? '—' : fmt(r.step, 4)),
+        h('td', { title: full(r.step) }, r.step === null || Number.isNaN(r.step) ? '—' : fmt(r.step, 4)),
         h('td', { class: 'kind' }, kindWords(r.kind)),
       ),
     );
@@ -107,6 +114,7 @@ export function showHistory(rows, curve, xLabel) {
       yLabel: '|f(x)|',
       logY: true,
       xRange: [0.5, rows.length + 0.5],
+      integerX: true,
       layers: [{ kind: 'line', cls: 'trace', data: pos.map((r) => [r.k, Math.abs(r.fx)]) }, { kind: 'points', cls: 'trace', data: pos.map((r) => [r.k, Math.abs(r.fx)]) }],
     }),
   );

@@ -64,7 +64,7 @@ export function validateState(data) {
         if (++n > 200) { problems.push('values has more than 200 entries'); break; }
         if (!SYMBOL_RE.test(sym)) { problems.push(`values has an entry whose name is not a symbol`); continue; }
         if (!entry || typeof entry !== 'object') { problems.push(`values.${sym} is not a value with a unit`); continue; }
-        const v = str(entry.v ?? '', 64, `values.${sym}.v`, problems);
+        const v = str(entry.v ?? '', 4000, `values.${sym}.v`, problems);
         const u = str(entry.u ?? '', 40, `values.${sym}.u`, problems);
         if (v === undefined || u === undefined) continue;
         st.values[sym] = { v, u };

@@ -109,7 +109,7 @@ fn sign(x: f64) -> f64 {
 /// `x` limited to `[lo, hi]`; NaN if any argument is NaN or `lo > hi`
 /// (never panics, unlike `f64::clamp`).
 fn clamp(x: f64, lo: f64, hi: f64) -> f64 {
-    if x.is_nan() || !(lo <= hi) {
+    if x.is_nan() || lo.is_nan() || hi.is_nan() || lo > hi {
         f64::NAN
     } else {
         x.max(lo).min(hi)
@@ -209,9 +209,17 @@ pub const FUNCTIONS: &[Function] = &[
     f1!("rad", radians, "degrees to radians"),
     f1!("floor", f64::floor, "largest integer ≤ x"),
     f1!("ceil", f64::ceil, "smallest integer ≥ x"),
-    f1!("round", f64::round, "nearest integer, halves away from zero"),
+    f1!(
+        "round",
+        f64::round,
+        "nearest integer, halves away from zero"
+    ),
     f1!("sign", sign, "-1, 0 or 1"),
-    f1!("signum", f64::signum, "-1 or 1 by the sign bit (signum(0) = 1)"),
+    f1!(
+        "signum",
+        f64::signum,
+        "-1 or 1 by the sign bit (signum(0) = 1)"
+    ),
     Function {
         name: "atan2",
         arity: Arity::Exact(2),

@@ -26,8 +26,6 @@ pub mod program;
 pub mod sensitivity;
 pub mod set;
 pub mod solve;
-// Until src/broyden.rs lands the agreed API is stood in for; swap to `mod system;`.
-#[path = "system_pending.rs"]
 pub mod system;
 
 pub use parse::{caret, Expression, MAX_DEPTH, MAX_TEXT_BYTES};

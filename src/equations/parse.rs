@@ -297,7 +297,15 @@ pub(crate) fn check_expression(
         if want_operand {
             match &t.tok {
                 Tok::Num(_) => want_operand = false,
-                Tok::Ident(name) if matches!(next, Some(Token { tok: Tok::LParen, .. })) => {
+                Tok::Ident(name)
+                    if matches!(
+                        next,
+                        Some(Token {
+                            tok: Tok::LParen,
+                            ..
+                        })
+                    ) =>
+                {
                     let Some(f) = functions::find(name) else {
                         return Err(unknown_function(name, t.pos));
                     };
@@ -309,10 +317,7 @@ pub(crate) fn check_expression(
                     {
                         return Err(InputError::at(
                             "wrong-argument-count",
-                            format!(
-                                "function `{name}` takes {}, got none",
-                                f.arity.describe()
-                            ),
+                            format!("function `{name}` takes {}, got none", f.arity.describe()),
                             t.pos,
                         ));
                     }
@@ -500,15 +505,13 @@ impl Expression {
     /// ```
     pub fn parse(text: &str) -> Result<Expression, InputError> {
         let tokens = lex(text)?;
-        if let Some(t) = tokens.iter().find(|t| {
-            matches!(t.tok, Tok::Equals | Tok::Define | Tok::Separator)
-        }) {
+        if let Some(t) = tokens
+            .iter()
+            .find(|t| matches!(t.tok, Tok::Equals | Tok::Define | Tok::Separator))
+        {
             return Err(InputError::at(
                 "not-an-expression",
-                format!(
-                    "{} is not allowed in a single expression",
-                    describe(&t.tok)
-                ),
+                format!("{} is not allowed in a single expression", describe(&t.tok)),
                 t.pos,
             ));
         }
@@ -566,10 +569,7 @@ impl Expression {
 
     /// The position of the first use of `name`.
     pub fn position_of(&self, name: &str) -> Option<usize> {
-        self.names
-            .iter()
-            .find(|(n, _)| n == name)
-            .map(|&(_, p)| p)
+        self.names.iter().find(|(n, _)| n == name).map(|&(_, p)| p)
     }
 
     pub(crate) fn uses(&self) -> &[(String, usize)] {
@@ -644,16 +644,15 @@ pub(crate) fn statements(text: &str) -> Result<Vec<Statement>, InputError> {
 fn statement(tokens: &[Token], end: usize) -> Result<Statement, InputError> {
     let position = tokens[0].pos;
     if let Some(k) = tokens.iter().position(|t| t.tok == Tok::Define) {
-        let name = match (k, &tokens[0].tok) {
-            (1, Tok::Ident(name)) => name.clone(),
-            _ => {
-                return Err(InputError::at(
+        let name =
+            match (k, &tokens[0].tok) {
+                (1, Tok::Ident(name)) => name.clone(),
+                _ => return Err(InputError::at(
                     "bad-definition",
                     "a definition is written `name := expression`, with a single name on the left",
                     tokens[k].pos,
-                ))
-            }
-        };
+                )),
+            };
         let body = &tokens[2..];
         if let Some(t) = body
             .iter()
@@ -693,7 +692,10 @@ fn statement(tokens: &[Token], end: usize) -> Result<Statement, InputError> {
             names
         }
         [eq] => {
-            let k = tokens.iter().position(|t| t.tok == Tok::Equals).unwrap_or(0);
+            let k = tokens
+                .iter()
+                .position(|t| t.tok == Tok::Equals)
+                .unwrap_or(0);
             let (lhs, rhs) = (&tokens[..k], &tokens[k + 1..]);
             if lhs.is_empty() {
                 return Err(InputError::at(

@@ -10,7 +10,8 @@
 //! [`super::functions::reference_context`]). The two rewrites the compiler makes keep
 //! every bit:
 //! - *fused operands*: `x * 2.5` becomes one `MulConst(2.5)` instead of a push and a
-//!   multiply; the same `left * right` is computed;
+//!   multiply, `1/sqrt(f)` a square root then `ConstDiv(1)`; the same `left ⊕ right`
+//!   is computed, operands in the same order;
 //! - *folding*: an operation whose operands are all fixed values is computed once at
 //!   compile time with the same Rust operation, and its result stored.
 //!
@@ -30,27 +31,44 @@ pub enum Operand {
     Value(f64),
 }
 
+/// One operation. The top of the stack is kept in a register (`acc`); `Stack` forms take
+/// their left operand from the stack, the fused forms take one operand from a constant
+/// or a slot (`XConst`: acc ⊕ c, `ConstX`: c ⊕ acc, likewise with a slot).
 #[derive(Debug, Clone, Copy)]
 enum Op {
     Load(u32),
     Const(f64),
-    Add,
-    Sub,
-    Mul,
-    Div,
-    Rem,
-    Pow,
     Neg,
+    Add,
     AddConst(f64),
-    SubConst(f64),
-    MulConst(f64),
-    DivConst(f64),
-    PowConst(f64),
     AddLoad(u32),
+    ConstAdd(f64),
+    LoadAdd(u32),
+    Sub,
+    SubConst(f64),
     SubLoad(u32),
+    ConstSub(f64),
+    LoadSub(u32),
+    Mul,
+    MulConst(f64),
     MulLoad(u32),
+    ConstMul(f64),
+    LoadMul(u32),
+    Div,
+    DivConst(f64),
     DivLoad(u32),
+    ConstDiv(f64),
+    LoadDiv(u32),
+    Rem,
+    RemConst(f64),
+    RemLoad(u32),
+    ConstRem(f64),
+    LoadRem(u32),
+    Pow,
+    PowConst(f64),
     PowLoad(u32),
+    ConstPow(f64),
+    LoadPow(u32),
     Call1(fn(f64) -> f64),
     Call2(fn(f64, f64) -> f64),
     Call3(fn(f64, f64, f64) -> f64),
@@ -97,9 +115,14 @@ impl CompileError {
 #[derive(Debug, Clone)]
 pub struct Program {
     ops: Vec<Op>,
+    /// The most operands alive at once.
     depth: usize,
     slots: usize,
 }
+
+/// The longest right operand moved over when a left operand is fused: keeps compiling
+/// linear in the length of the text.
+const FUSE_WINDOW: usize = 64;
 
 impl Program {
     /// Translates meval RPN. `resolve` maps each variable name to a slot or a fixed
@@ -110,7 +133,7 @@ impl Program {
     ) -> Result<Program, CompileError> {
         let mut b = Builder {
             ops: Vec::with_capacity(rpn.len()),
-            depth: 0,
+            starts: Vec::new(),
             max_depth: 0,
             slots: 0,
         };
@@ -119,8 +142,7 @@ impl Program {
                 Token::Number(v) => b.push(Op::Const(*v)),
                 Token::Var(name) => match resolve(name) {
                     Some(Operand::Slot(s)) => {
-                        let s32 =
-                            u32::try_from(s).map_err(|_| CompileError::Malformed("slot"))?;
+                        let s32 = u32::try_from(s).map_err(|_| CompileError::Malformed("slot"))?;
                         b.slots = b.slots.max(s + 1);
                         b.push(Op::Load(s32))
                     }
@@ -142,7 +164,7 @@ impl Program {
                 _ => return Err(CompileError::Malformed("unexpected token")),
             }
         }
-        if b.depth != 1 {
+        if b.starts.len() != 1 {
             return Err(CompileError::Malformed("operands left over"));
         }
         Ok(Program {
@@ -154,7 +176,7 @@ impl Program {
 
     /// The stack length [`Program::eval_with`] needs.
     pub fn stack_size(&self) -> usize {
-        self.depth
+        self.depth + 1
     }
 
     /// The number of slots read (highest slot + 1).
@@ -181,88 +203,108 @@ impl Program {
 
     /// Evaluates with a fresh stack.
     pub fn eval(&self, slots: &[f64]) -> f64 {
-        let mut stack = vec![0.0; self.depth];
+        let mut stack = vec![0.0; self.stack_size()];
         self.eval_with(slots, &mut stack)
     }
 
     /// Evaluates with `slots` and a stack of at least [`Program::stack_size`]; NaN if
     /// either is too short (never panics).
     #[inline]
+    // Each operation is written `left ⊕ right` in meval's operand order, on purpose.
+    #[allow(clippy::assign_op_pattern)]
     pub fn eval_with(&self, slots: &[f64], stack: &mut [f64]) -> f64 {
-        if slots.len() < self.slots || stack.len() < self.depth || self.depth == 0 {
+        if slots.len() < self.slots || stack.len() < self.stack_size() || self.ops.is_empty() {
             return f64::NAN;
         }
-        let load = |s: u32| slots[s as usize];
+        // `sp` counts the values below the top; `acc` is the top.
+        let mut acc = 0.0;
         let mut sp = 0usize;
         for op in &self.ops {
             match *op {
                 Op::Load(s) => {
-                    stack[sp] = load(s);
+                    stack[sp] = acc;
                     sp += 1;
+                    acc = slots[s as usize];
                 }
                 Op::Const(v) => {
-                    stack[sp] = v;
+                    stack[sp] = acc;
                     sp += 1;
+                    acc = v;
                 }
+                Op::Neg => acc = -acc,
                 Op::Add => {
                     sp -= 1;
-                    stack[sp - 1] += stack[sp];
+                    acc = stack[sp] + acc;
                 }
+                Op::AddConst(c) => acc = acc + c,
+                Op::AddLoad(s) => acc = acc + slots[s as usize],
+                Op::ConstAdd(c) => acc = c + acc,
+                Op::LoadAdd(s) => acc = slots[s as usize] + acc,
                 Op::Sub => {
                     sp -= 1;
-                    stack[sp - 1] -= stack[sp];
+                    acc = stack[sp] - acc;
                 }
+                Op::SubConst(c) => acc = acc - c,
+                Op::SubLoad(s) => acc = acc - slots[s as usize],
+                Op::ConstSub(c) => acc = c - acc,
+                Op::LoadSub(s) => acc = slots[s as usize] - acc,
                 Op::Mul => {
                     sp -= 1;
-                    stack[sp - 1] *= stack[sp];
+                    acc = stack[sp] * acc;
                 }
+                Op::MulConst(c) => acc = acc * c,
+                Op::MulLoad(s) => acc = acc * slots[s as usize],
+                Op::ConstMul(c) => acc = c * acc,
+                Op::LoadMul(s) => acc = slots[s as usize] * acc,
                 Op::Div => {
                     sp -= 1;
-                    stack[sp - 1] /= stack[sp];
+                    acc = stack[sp] / acc;
                 }
+                Op::DivConst(c) => acc = acc / c,
+                Op::DivLoad(s) => acc = acc / slots[s as usize],
+                Op::ConstDiv(c) => acc = c / acc,
+                Op::LoadDiv(s) => acc = slots[s as usize] / acc,
                 Op::Rem => {
                     sp -= 1;
-                    stack[sp - 1] %= stack[sp];
+                    acc = stack[sp] % acc;
                 }
+                Op::RemConst(c) => acc = acc % c,
+                Op::RemLoad(s) => acc = acc % slots[s as usize],
+                Op::ConstRem(c) => acc = c % acc,
+                Op::LoadRem(s) => acc = slots[s as usize] % acc,
                 Op::Pow => {
                     sp -= 1;
-                    stack[sp - 1] = stack[sp - 1].powf(stack[sp]);
+                    acc = stack[sp].powf(acc);
                 }
-                Op::Neg => stack[sp - 1] = -stack[sp - 1],
-                Op::AddConst(c) => stack[sp - 1] += c,
-                Op::SubConst(c) => stack[sp - 1] -= c,
-                Op::MulConst(c) => stack[sp - 1] *= c,
-                Op::DivConst(c) => stack[sp - 1] /= c,
-                Op::PowConst(c) => stack[sp - 1] = stack[sp - 1].powf(c),
-                Op::AddLoad(s) => stack[sp - 1] += load(s),
-                Op::SubLoad(s) => stack[sp - 1] -= load(s),
-                Op::MulLoad(s) => stack[sp - 1] *= load(s),
-                Op::DivLoad(s) => stack[sp - 1] /= load(s),
-                Op::PowLoad(s) => stack[sp - 1] = stack[sp - 1].powf(load(s)),
-                Op::Call1(f) => stack[sp - 1] = f(stack[sp - 1]),
+                Op::PowConst(c) => acc = acc.powf(c),
+                Op::PowLoad(s) => acc = acc.powf(slots[s as usize]),
+                Op::ConstPow(c) => acc = c.powf(acc),
+                Op::LoadPow(s) => acc = slots[s as usize].powf(acc),
+                Op::Call1(f) => acc = f(acc),
                 Op::Call2(f) => {
                     sp -= 1;
-                    stack[sp - 1] = f(stack[sp - 1], stack[sp]);
+                    acc = f(stack[sp], acc);
                 }
                 Op::Call3(f) => {
                     sp -= 2;
-                    stack[sp - 1] = f(stack[sp - 1], stack[sp], stack[sp + 1]);
+                    acc = f(stack[sp], stack[sp + 1], acc);
                 }
                 Op::CallN(f, n) => {
                     let n = n as usize;
-                    let r = f(&stack[sp - n..sp]);
+                    stack[sp] = acc;
+                    acc = f(&stack[sp + 1 - n..=sp]);
                     sp -= n - 1;
-                    stack[sp - 1] = r;
                 }
             }
         }
-        stack[0]
+        acc
     }
 }
 
 struct Builder {
     ops: Vec<Op>,
-    depth: usize,
+    /// For each operand on the compile-time stack, the index of its first operation.
+    starts: Vec<usize>,
     max_depth: usize,
     slots: usize,
 }
@@ -278,29 +320,65 @@ fn apply(op: Operation, left: f64, right: f64) -> f64 {
     }
 }
 
+fn fuse_right(op: Operation, operand: Op) -> Option<Op> {
+    match (op, operand) {
+        (Operation::Plus, Op::Const(c)) => Some(Op::AddConst(c)),
+        (Operation::Plus, Op::Load(s)) => Some(Op::AddLoad(s)),
+        (Operation::Minus, Op::Const(c)) => Some(Op::SubConst(c)),
+        (Operation::Minus, Op::Load(s)) => Some(Op::SubLoad(s)),
+        (Operation::Times, Op::Const(c)) => Some(Op::MulConst(c)),
+        (Operation::Times, Op::Load(s)) => Some(Op::MulLoad(s)),
+        (Operation::Div, Op::Const(c)) => Some(Op::DivConst(c)),
+        (Operation::Div, Op::Load(s)) => Some(Op::DivLoad(s)),
+        (Operation::Rem, Op::Const(c)) => Some(Op::RemConst(c)),
+        (Operation::Rem, Op::Load(s)) => Some(Op::RemLoad(s)),
+        (Operation::Pow, Op::Const(c)) => Some(Op::PowConst(c)),
+        (Operation::Pow, Op::Load(s)) => Some(Op::PowLoad(s)),
+        _ => None,
+    }
+}
+
+fn fuse_left(op: Operation, operand: Op) -> Option<Op> {
+    match (op, operand) {
+        (Operation::Plus, Op::Const(c)) => Some(Op::ConstAdd(c)),
+        (Operation::Plus, Op::Load(s)) => Some(Op::LoadAdd(s)),
+        (Operation::Minus, Op::Const(c)) => Some(Op::ConstSub(c)),
+        (Operation::Minus, Op::Load(s)) => Some(Op::LoadSub(s)),
+        (Operation::Times, Op::Const(c)) => Some(Op::ConstMul(c)),
+        (Operation::Times, Op::Load(s)) => Some(Op::LoadMul(s)),
+        (Operation::Div, Op::Const(c)) => Some(Op::ConstDiv(c)),
+        (Operation::Div, Op::Load(s)) => Some(Op::LoadDiv(s)),
+        (Operation::Rem, Op::Const(c)) => Some(Op::ConstRem(c)),
+        (Operation::Rem, Op::Load(s)) => Some(Op::LoadRem(s)),
+        (Operation::Pow, Op::Const(c)) => Some(Op::ConstPow(c)),
+        (Operation::Pow, Op::Load(s)) => Some(Op::LoadPow(s)),
+        _ => None,
+    }
+}
+
 impl Builder {
     fn push(&mut self, op: Op) {
+        self.starts.push(self.ops.len());
         self.ops.push(op);
-        self.depth += 1;
-        self.max_depth = self.max_depth.max(self.depth);
+        self.max_depth = self.max_depth.max(self.starts.len());
     }
 
     fn need(&self, n: usize) -> Result<(), CompileError> {
-        if self.depth < n {
+        if self.starts.len() < n {
             Err(CompileError::Malformed("missing operands"))
         } else {
             Ok(())
         }
     }
 
-    /// The fixed values on top of the stack when the last `n` operations are constants.
-    /// (An operand on the stack is constant only if one `Const` produced it, so the top
-    /// `n` operands are constant exactly when the last `n` operations are `Const`.)
+    /// The fixed values of the top `n` operands, when each is a single `Const`.
     fn constant_tail(&self, n: usize) -> Option<Vec<f64>> {
-        if self.ops.len() < n {
+        let k = self.starts.len();
+        let first = self.starts[k - n];
+        if self.ops.len() - first != n {
             return None;
         }
-        self.ops[self.ops.len() - n..]
+        self.ops[first..]
             .iter()
             .map(|op| match op {
                 Op::Const(v) => Some(*v),
@@ -312,47 +390,51 @@ impl Builder {
     fn binary(&mut self, op: Operation) -> Result<(), CompileError> {
         self.need(2)?;
         if let Some(v) = self.constant_tail(2) {
-            self.ops.truncate(self.ops.len() - 2);
-            self.depth -= 2;
-            self.push(Op::Const(apply(op, v[0], v[1])));
+            self.replace_top(2, Op::Const(apply(op, v[0], v[1])));
             return Ok(());
         }
-        let last = self.ops.last().copied();
-        let fused = match (op, last) {
-            (Operation::Plus, Some(Op::Const(c))) => Some(Op::AddConst(c)),
-            (Operation::Minus, Some(Op::Const(c))) => Some(Op::SubConst(c)),
-            (Operation::Times, Some(Op::Const(c))) => Some(Op::MulConst(c)),
-            (Operation::Div, Some(Op::Const(c))) => Some(Op::DivConst(c)),
-            (Operation::Pow, Some(Op::Const(c))) => Some(Op::PowConst(c)),
-            (Operation::Plus, Some(Op::Load(s))) => Some(Op::AddLoad(s)),
-            (Operation::Minus, Some(Op::Load(s))) => Some(Op::SubLoad(s)),
-            (Operation::Times, Some(Op::Load(s))) => Some(Op::MulLoad(s)),
-            (Operation::Div, Some(Op::Load(s))) => Some(Op::DivLoad(s)),
-            (Operation::Pow, Some(Op::Load(s))) => Some(Op::PowLoad(s)),
-            _ => None,
-        };
-        match fused {
-            Some(f) => {
-                self.ops.pop();
-                self.ops.push(f);
+        let right = self.starts.pop().unwrap_or(0);
+        let left = *self.starts.last().unwrap_or(&0);
+        let end = self.ops.len();
+        // A right operand of one operation: fuse it (acc ⊕ c).
+        if end == right + 1 {
+            if let Some(f) = fuse_right(op, self.ops[right]) {
+                self.ops[right] = f;
+                return Ok(());
             }
-            None => self.ops.push(match op {
-                Operation::Plus => Op::Add,
-                Operation::Minus => Op::Sub,
-                Operation::Times => Op::Mul,
-                Operation::Div => Op::Div,
-                Operation::Rem => Op::Rem,
-                Operation::Pow => Op::Pow,
-            }),
         }
-        self.depth -= 1;
+        // A left operand of one operation: move it after the right operand (c ⊕ acc).
+        if right == left + 1 && end - right <= FUSE_WINDOW {
+            if let Some(f) = fuse_left(op, self.ops[left]) {
+                self.ops.remove(left);
+                self.ops.push(f);
+                return Ok(());
+            }
+        }
+        self.ops.push(match op {
+            Operation::Plus => Op::Add,
+            Operation::Minus => Op::Sub,
+            Operation::Times => Op::Mul,
+            Operation::Div => Op::Div,
+            Operation::Rem => Op::Rem,
+            Operation::Pow => Op::Pow,
+        });
         Ok(())
+    }
+
+    /// Replaces the top `n` operands (all single constants) by one operation.
+    fn replace_top(&mut self, n: usize, op: Op) {
+        let k = self.starts.len();
+        let first = self.starts[k - n];
+        self.ops.truncate(first);
+        self.starts.truncate(k - n);
+        self.push(op);
     }
 
     fn negate(&mut self) -> Result<(), CompileError> {
         self.need(1)?;
-        if let Some(Op::Const(v)) = self.ops.last_mut() {
-            *v = -*v;
+        if let Some(v) = self.constant_tail(1) {
+            self.replace_top(1, Op::Const(-v[0]));
         } else {
             self.ops.push(Op::Neg);
         }
@@ -365,22 +447,22 @@ impl Builder {
         }
         self.need(n)?;
         if let Some(v) = self.constant_tail(n) {
-            self.ops.truncate(self.ops.len() - n);
-            self.depth -= n;
-            self.push(Op::Const(imp.call(&v)));
+            self.replace_top(n, Op::Const(imp.call(&v)));
             return Ok(());
         }
         let op = match (imp, n) {
             (Implementation::One(f), 1) => Op::Call1(f),
             (Implementation::Two(f), 2) => Op::Call2(f),
             (Implementation::Three(f), 3) => Op::Call3(f),
-            (Implementation::Many(f), n) => {
-                Op::CallN(f, u32::try_from(n).map_err(|_| CompileError::Malformed("arity"))?)
-            }
+            (Implementation::Many(f), n) => Op::CallN(
+                f,
+                u32::try_from(n).map_err(|_| CompileError::Malformed("arity"))?,
+            ),
             _ => return Err(CompileError::Malformed("argument count")),
         };
         self.ops.push(op);
-        self.depth -= n - 1;
+        let k = self.starts.len();
+        self.starts.truncate(k - n + 1);
         Ok(())
     }
 }

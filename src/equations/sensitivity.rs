@@ -17,7 +17,8 @@
 //! through two points the solver already evaluated, if two lie close to the root but
 //! not too close to each other: for points within d·|u| of the root and w·|u| apart,
 //! the slope's relative error is taken as `d + 1e-15/w` (truncation plus rounding) and
-//! the pair is used when that is at most 1e-6. Otherwise, and for J_p always, new
+//! the pair is used when that is at most [`REUSE_TOLERANCE`] (1e-5: five
+//! significant digits, ample for a design sensitivity). Otherwise, and for J_p always, new
 //! evaluations are made, each one evaluation of every equation of the set, counted in
 //! `SetSolution::sensitivity_evaluations`: 2 per column computed.
 
@@ -37,10 +38,11 @@ pub struct Sensitivity {
 }
 
 /// The largest acceptable estimated relative error of a re-used secant slope.
-const REUSE_TOLERANCE: f64 = 1e-6;
+pub const REUSE_TOLERANCE: f64 = 1e-5;
 
-/// The secant slope through two evaluated points near `root`, when accurate enough.
-pub(crate) fn slope_from_history(rows: &[HistoryRow], root: f64) -> Option<f64> {
+/// The secant slope through two evaluated points near `root` (among the last eight
+/// with finite values), when its estimated relative error is within [`REUSE_TOLERANCE`].
+pub fn slope_from_history(rows: &[HistoryRow], root: f64) -> Option<f64> {
     let scale = if root != 0.0 { root.abs() } else { 1.0 };
     let pts: Vec<(f64, f64)> = rows
         .iter()
@@ -62,7 +64,7 @@ pub(crate) fn slope_from_history(rows: &[HistoryRow], root: f64) -> Option<f64> 
             if est <= REUSE_TOLERANCE
                 && slope.is_finite()
                 && slope != 0.0
-                && best.map_or(true, |(e, _)| est < e)
+                && best.is_none_or(|(e, _)| est < e)
             {
                 best = Some((est, slope));
             }
@@ -99,7 +101,7 @@ pub(crate) fn compute(
     }
     let mut live: Vec<usize> = slots.to_vec();
     for (k, _) in knowns {
-        live.push(layout.slot_of(k).unwrap_or(usize::MAX));
+        live.push(layout.require_slot(k)?);
     }
     let equations = layout_equations(layout);
     let mut block = layout.block(values, &live, u128::MAX, &equations)?;
@@ -131,7 +133,10 @@ pub(crate) fn compute(
     }
     // Solve J_u S = -J_p.
     let mut a: Vec<Vec<f64>> = jac.iter().map(|r| r[..n].to_vec()).collect();
-    let mut b: Vec<Vec<f64>> = jac.iter().map(|r| r[n..].iter().map(|v| -v).collect()).collect();
+    let mut b: Vec<Vec<f64>> = jac
+        .iter()
+        .map(|r| r[n..].iter().map(|v| -v).collect())
+        .collect();
     let solved = gauss(&mut a, &mut b);
     let mut out = Vec::with_capacity(n * m);
     for (i, name) in names.iter().enumerate() {
@@ -160,6 +165,7 @@ fn layout_equations(layout: &Layout<'_>) -> Vec<usize> {
 
 /// Gaussian elimination with partial pivoting: solves A X = B in place (X in `b`).
 /// False when A is singular or not finite.
+#[allow(clippy::needless_range_loop)] // dense elimination reads best with indices
 fn gauss(a: &mut [Vec<f64>], b: &mut [Vec<f64>]) -> bool {
     let n = a.len();
     for c in 0..n {

@@ -139,7 +139,9 @@ impl EquationSet {
         if let Some(&i) = self.defined.get(name) {
             return Some(self.statements[i].position);
         }
-        self.statements.iter().find_map(|s| s.expr.position_of(name))
+        self.statements
+            .iter()
+            .find_map(|s| s.expr.position_of(name))
     }
 
     /// The layout of slots for a solve in which `variables` (the set's variables plus
@@ -221,15 +223,13 @@ impl EquationSet {
         if n != 1 {
             return Err(InputError::new(
                 "equation-count",
-                format!(
-                    "a residual of one unknown needs exactly one equation; this text has {n}"
-                ),
+                format!("a residual of one unknown needs exactly one equation; this text has {n}"),
             ));
         }
         let spec = [super::solve::UnknownSpec::named(unknown)];
         let plan = super::solve::check_names(self, knowns, &spec)?;
         let layout = self.layout(plan.variables.clone(), &[unknown.to_string()]);
-        let live = [layout.slot_of(unknown).unwrap_or(0)];
+        let live = [layout.require_slot(unknown)?];
         let mut block = layout.block(&plan.values, &live, 1, &self.equation_indices())?;
         Ok(move |x: f64| block.eval_one(x))
     }
@@ -329,6 +329,17 @@ pub(crate) struct Layout<'a> {
 impl Layout<'_> {
     pub fn slot_of(&self, name: &str) -> Option<usize> {
         self.slot.get(name).copied()
+    }
+
+    /// The slot of a name already checked to be a variable; an error, never a panic,
+    /// if it is not.
+    pub fn require_slot(&self, name: &str) -> Result<usize, InputError> {
+        self.slot_of(name).ok_or_else(|| {
+            InputError::new(
+                "unused-name",
+                format!("`{name}` appears in no equation or definition"),
+            )
+        })
     }
 
     /// Statement indices of the equations, in text order.

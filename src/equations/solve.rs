@@ -18,6 +18,8 @@
 //!
 //! Broyden starts from the first of the two.
 
+use std::collections::{HashMap, HashSet};
+
 use super::sensitivity::{self, Sensitivity};
 use super::set::{EquationSet, Layout};
 use super::system::{self, SystemOptions, SystemSolution};
@@ -28,6 +30,10 @@ use crate::tolerances::Bounds;
 
 /// The most unknowns solved together in one set.
 pub const MAX_UNKNOWNS: usize = 100;
+
+/// The most given values sensitivities are computed for (two evaluations of the whole
+/// set each).
+pub const MAX_SENSITIVITY_INPUTS: usize = 1000;
 
 /// An unknown to solve for, with optional starting guesses and bounds.
 #[derive(Debug, Clone, PartialEq)]
@@ -114,22 +120,22 @@ pub(crate) fn check_names(
     unknowns: &[UnknownSpec],
 ) -> Result<NamePlan, InputError> {
     let mut variables = set.variables();
-    let constants = set.constants_used();
-    let definitions = set.definition_names();
-    let mut seen: Vec<&str> = Vec::new();
+    let constants: HashSet<String> = set.constants_used().into_iter().collect();
+    let definitions: HashSet<String> = set.definition_names().into_iter().collect();
+    let known_vars: HashSet<String> = variables.iter().cloned().collect();
+    let mut seen: HashSet<&str> = HashSet::new();
     let all = knowns
         .iter()
         .map(|(n, _)| (n.as_str(), "a value"))
         .chain(unknowns.iter().map(|u| (u.name.as_str(), "an unknown")));
     for (name, role) in all {
-        if seen.contains(&name) {
+        if !seen.insert(name) {
             return Err(InputError::new(
                 "duplicate-name",
                 format!("`{name}` is given more than once (as {role} and before)"),
             ));
         }
-        seen.push(name);
-        if definitions.iter().any(|d| d == name) {
+        if definitions.contains(name) {
             let mut e = InputError::new(
                 "defined-name",
                 format!(
@@ -139,10 +145,10 @@ pub(crate) fn check_names(
             e.position = set.position_of(name);
             return Err(e);
         }
-        if constants.iter().any(|c| c == name) {
+        if constants.contains(name) {
             // The caller shadows the constant: it becomes a variable.
             variables.push(name.to_string());
-        } else if !variables.iter().any(|v| v == name) {
+        } else if !known_vars.contains(name) {
             return Err(InputError::new(
                 "unused-name",
                 format!("`{name}` is given as {role} but appears in no equation or definition"),
@@ -157,11 +163,13 @@ pub(crate) fn check_names(
             ));
         }
     }
+    let given: HashMap<&str, f64> = knowns.iter().map(|(n, v)| (n.as_str(), *v)).collect();
+    let unknown_names: HashSet<&str> = unknowns.iter().map(|u| u.name.as_str()).collect();
     let mut values = vec![f64::NAN; variables.len()];
     for (i, v) in variables.iter().enumerate() {
-        if let Some((_, x)) = knowns.iter().find(|(n, _)| n == v) {
+        if let Some(x) = given.get(v.as_str()) {
             values[i] = *x;
-        } else if !unknowns.iter().any(|u| &u.name == v) {
+        } else if !unknown_names.contains(v.as_str()) {
             let mut e = InputError::new(
                 "missing-value",
                 format!("no value is given for `{v}`, and it is not an unknown"),
@@ -219,7 +227,10 @@ fn start_points(spec: &UnknownSpec, bounds: Bounds) -> Result<(f64, f64), InputE
         if !v.is_finite() {
             return Err(InputError::new(
                 "non-finite-input",
-                format!("the {which} guess for `{}` must be finite, got {v}", spec.name),
+                format!(
+                    "the {which} guess for `{}` must be finite, got {v}",
+                    spec.name
+                ),
             ));
         }
         if !bounds.contains(v) {
@@ -235,7 +246,10 @@ fn start_points(spec: &UnknownSpec, bounds: Bounds) -> Result<(f64, f64), InputE
     if a == b {
         return Err(InputError::new(
             "equal-guesses",
-            format!("the two guesses for `{}` must differ, both are {a}", spec.name),
+            format!(
+                "the two guesses for `{}` must differ, both are {a}",
+                spec.name
+            ),
         ));
     }
     Ok((a, b))
@@ -284,6 +298,15 @@ pub fn solve_set(
         ));
     }
     let plan = check_names(set, knowns, unknowns)?;
+    if sensitivities && knowns.len() > MAX_SENSITIVITY_INPUTS {
+        return Err(InputError::new(
+            "too-many-inputs",
+            format!(
+                "sensitivities were asked for {} given values; the limit is {MAX_SENSITIVITY_INPUTS}",
+                knowns.len()
+            ),
+        ));
+    }
     if unknowns.len() != n_eq {
         let names: Vec<&str> = unknowns.iter().map(|u| u.name.as_str()).collect();
         return Err(InputError::new(
@@ -309,8 +332,8 @@ pub fn solve_set(
     let layout = set.layout(plan.variables.clone(), &names);
     let slots: Vec<usize> = names
         .iter()
-        .map(|n| layout.slot_of(n).unwrap_or(usize::MAX))
-        .collect();
+        .map(|n| layout.require_slot(n))
+        .collect::<Result<_, _>>()?;
     let equations = set.equation_indices();
     let blocks = plan_blocks(set, &layout, &equations, &names)?;
 
@@ -420,14 +443,18 @@ pub fn solve_set(
     })
 }
 
+/// A block of the plan: unknown indices and equation indices.
+type Block = (Vec<usize>, Vec<usize>);
+
 /// Splits the problem into blocks (unknown indices, equation indices), in the order to
 /// solve them, or says why the equations cannot determine the unknowns.
+#[allow(clippy::needless_range_loop)] // matrices of small n, indexed both ways
 fn plan_blocks(
     set: &EquationSet,
     layout: &Layout<'_>,
     equations: &[usize],
     names: &[String],
-) -> Result<Vec<(Vec<usize>, Vec<usize>)>, InputError> {
+) -> Result<Vec<Block>, InputError> {
     let n = names.len();
     // contains[e][k]: equation e depends on unknown k.
     let contains: Vec<Vec<bool>> = equations
@@ -483,7 +510,11 @@ fn plan_blocks(
     }
     // Equation e needs equation f when e contains the unknown matched to f.
     let mut reach: Vec<Vec<bool>> = (0..n)
-        .map(|e| (0..n).map(|f| e == f || contains[e][unknown_of[f]]).collect())
+        .map(|e| {
+            (0..n)
+                .map(|f| e == f || contains[e][unknown_of[f]])
+                .collect()
+        })
         .collect();
     for m in 0..n {
         for e in 0..n {

@@ -63,8 +63,11 @@ enum Symptom {
 /// One side of the outward search.
 #[derive(Debug, Clone, Copy)]
 struct SearchSide {
-    /// Outermost good point on this side.
+    /// Outermost good point on this side, and |f| there.
     edge: f64,
+    f_edge: f64,
+    /// Whether the last step on this side made |f| smaller.
+    improving: bool,
     /// Next outward step length.
     stride: f64,
     /// Nearest non-finite (or underflowed) point beyond `edge`, if any.
@@ -99,10 +102,13 @@ struct SearchSide {
 ///    ([`TOUCH_REL`]), and ends as "stagnated" otherwise.
 /// 4. Non-finite values (a domain error) are met by halving back towards the last good
 ///    point, up to ten times in a row and thirty in all.
-/// 5. Outward search: from the hull of the good points, alternately left and right,
-///    steps that double each time (Numerical Recipes' geometric bracket expansion), up
-///    to 60 evaluations, never past a bound; a side that meets a non-finite value halves
-///    towards it instead, up to ten times.
+/// 5. Outward search from the guesses (from the good points, if a guess is not good):
+///    steps that double each time (Numerical Recipes' geometric bracket expansion) on
+///    the side with the smaller |f|, the other side getting every third turn; up to 60
+///    evaluations, never past a bound. A side about to cross zero while its |f| falls
+///    first looks a quarter of the way to zero, up to three times (roots of quantities
+///    of one sign often lie at a smaller scale). A side that meets a non-finite value
+///    halves towards it instead, up to ten times.
 /// 6. An exact zero met outside a bracket is confirmed by one probe close to it: if f
 ///    is zero there too, the zero is an underflowed plateau (such as x·e⁻ˣ far out), not
 ///    a root, and is treated like a non-finite value.
@@ -165,7 +171,9 @@ pub struct Auto {
     // Search phase.
     left: SearchSide,
     right: SearchSide,
-    next_side: Side,
+    last_side: Side,
+    /// Evaluations in a row on `last_side`, to give the other side a turn after two.
+    same_side_run: usize,
     search_evals: usize,
     inner: Option<Box<dyn ScalarMethod>>,
     iterations: usize,
@@ -183,6 +191,8 @@ impl Auto {
     pub fn new(a: f64, b: f64, is_bracket: bool) -> Auto {
         let closed = SearchSide {
             edge: f64::NAN,
+            f_edge: f64::NAN,
+            improving: false,
             stride: 0.0,
             wall: None,
             wall_halvings: 0,
@@ -217,7 +227,8 @@ impl Auto {
             rescue_k: 0,
             left: closed,
             right: closed,
-            next_side: Side::Left,
+            last_side: Side::Left,
+            same_side_run: 0,
             search_evals: 0,
             inner: None,
             iterations: 0,
@@ -259,7 +270,7 @@ impl Auto {
             if good(ft) && t != x && (ft < 0.0) != (fx < 0.0) {
                 // The nearest opposite-sign point gives the tightest bracket, since no
                 // sign change existed before this point arrived.
-                if partner.map_or(true, |(p, _)| (t - x).abs() < (p - x).abs()) {
+                if partner.is_none_or(|(p, _)| (t - x).abs() < (p - x).abs()) {
                     partner = Some((t, ft));
                 }
             }
@@ -446,7 +457,7 @@ impl Auto {
             let hi = goods.map(|p| p.0).fold(f64::NEG_INFINITY, f64::max);
             (lo, hi)
         };
-        if !(lo <= hi) {
+        if lo.is_nan() || hi.is_nan() || lo > hi {
             return self.fail(ctx);
         }
         let stride = (hi - lo).max((self.b - self.a).abs());
@@ -464,8 +475,12 @@ impl Auto {
             .filter(|p| !good(p.1) && p.0 > hi)
             .map(|p| p.0)
             .fold(None, |w: Option<f64>, t| Some(w.map_or(t, |w| w.min(t))));
+        let f_at = |x: f64| self.lookup(x).unwrap_or(f64::NAN).abs();
+        let (f_lo, f_hi) = (f_at(lo), f_at(hi));
         self.left = SearchSide {
             edge: lo,
+            f_edge: f_lo,
+            improving: true,
             stride,
             wall: wall_left,
             wall_halvings: 0,
@@ -474,19 +489,15 @@ impl Auto {
         };
         self.right = SearchSide {
             edge: hi,
+            f_edge: f_hi,
+            improving: true,
             stride,
             wall: wall_right,
             wall_halvings: 0,
             towards_zero: 0,
             open: !self.is_bracket || wall_right.is_some(),
         };
-        // Start on the side whose end has the smaller |f|.
-        let f_at = |x: f64| self.lookup(x).unwrap_or(f64::NAN).abs();
-        self.next_side = if f_at(lo) <= f_at(hi) {
-            Side::Left
-        } else {
-            Side::Right
-        };
+        self.same_side_run = 0;
         self.search_next(ctx)
     }
 
@@ -502,7 +513,23 @@ impl Auto {
             if self.search_evals >= SEARCH_EVALS || (!self.left.open && !self.right.open) {
                 return self.fail(ctx);
             }
-            let side = match (self.next_side, self.left.open, self.right.open) {
+            // The side whose end has the smaller |f| goes first (Numerical Recipes'
+            // rule), but after two turns in a row the other side gets one, so a side
+            // where f only creeps towards zero (an asymptote) cannot take them all.
+            let preferred = if self.left.f_edge <= self.right.f_edge {
+                Side::Left
+            } else {
+                Side::Right
+            };
+            let wanted = if self.same_side_run >= 2 {
+                match self.last_side {
+                    Side::Left => Side::Right,
+                    Side::Right => Side::Left,
+                }
+            } else {
+                preferred
+            };
+            let side = match (wanted, self.left.open, self.right.open) {
                 (Side::Left, true, _) | (Side::Right, true, false) => Side::Left,
                 _ => Side::Right,
             };
@@ -525,10 +552,12 @@ impl Auto {
                 let st = self.side_mut(side);
                 if s.edge != 0.0
                     && (x < 0.0) != (s.edge < 0.0)
+                    && st.improving
                     && st.towards_zero < MAX_TOWARDS_ZERO
                 {
                     // Quantities of one sign (a diameter, a rate) often have their root
-                    // at a smaller scale: look a quarter of the way to zero first.
+                    // at a smaller scale: while |f| keeps falling on this side, look a
+                    // quarter of the way to zero before crossing it.
                     st.towards_zero += 1;
                     x = s.edge / 4.0;
                 } else {
@@ -556,10 +585,12 @@ impl Auto {
                 }
                 continue;
             }
-            self.next_side = match side {
-                Side::Left => Side::Right,
-                Side::Right => Side::Left,
-            };
+            if side == self.last_side {
+                self.same_side_run += 1;
+            } else {
+                self.last_side = side;
+                self.same_side_run = 1;
+            }
             self.search_evals += 1;
             let kind = if s.wall.is_some() {
                 StepKind::Backtrack
@@ -574,7 +605,9 @@ impl Auto {
     fn search_told(&mut self, side: Side, x: f64, fx: f64, ctx: &Context) -> Ask {
         let st = self.side_mut(side);
         if good(fx) {
+            st.improving = fx.abs() < st.f_edge;
             st.edge = x;
+            st.f_edge = fx.abs();
         } else {
             st.wall = Some(x);
         }

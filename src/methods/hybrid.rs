@@ -27,6 +27,9 @@ use crate::outcome::{Status, StepKind};
 ///   step is a split, so no more than four evaluations pass between splits while the
 ///   bracket shrinks slowly.
 ///
+/// - NaN at a new point (a hole in the function's domain inside the bracket): step back
+///   halfway towards the best end, up to 8 times in a row, then end with
+///   [`Status::NonFinite`]. Infinite values keep their sign and are split past.
 /// - Order of convergence: about 1.839 (inverse quadratic) near a simple root; linear, one
 ///   split per evaluation, where the test sends it to the split (multiple roots, flat
 ///   stretches); it cannot diverge.
@@ -64,6 +67,8 @@ pub struct Hybrid {
     unsplit: u8,
     /// Points evaluated earlier with no usable value that lie inside the bracket.
     avoid: Vec<f64>,
+    /// NaN values in a row, each answered by a step back towards the best end.
+    backoffs: u8,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -74,6 +79,9 @@ enum Phase {
     Ready,
     Running,
 }
+
+/// NaN values in a row answered by a step back before giving up.
+const MAX_BACKOFFS: u8 = 8;
 
 /// Steps without a split allowed before the guard forces one.
 const GUARD_STEPS: u8 = 4;
@@ -92,6 +100,7 @@ impl Hybrid {
             anchor_width: f64::INFINITY,
             unsplit: 0,
             avoid: Vec::new(),
+            backoffs: 0,
         }
     }
 
@@ -208,7 +217,7 @@ impl Hybrid {
         }
         let (lo, hi) = self.ends();
         let width = hi - lo;
-        let mid = lo + width / 2.0;
+        let mid = midpoint(lo, hi);
         let tol = ctx.tol.x_tol(u);
         if mid <= lo || mid >= hi || width <= 2.0 * tol {
             return Finish::at(Status::ConvergedStep, u, fu);
@@ -253,7 +262,28 @@ impl Hybrid {
             }
             moves += 1;
         }
+        if self.avoid.contains(&x) {
+            return Finish::at(Status::NonFinite, u, fu);
+        }
         Ask::Eval(x, kind)
+    }
+
+    /// After NaN at x (no sign, so the bracket cannot be narrowed): try halfway back
+    /// towards the best end, a bounded number of times in a row, then give up honestly.
+    fn back_off(&mut self, x: f64) -> Ask {
+        let (u, fu) = self.best();
+        let (lo, hi) = self.ends();
+        self.avoid.push(x);
+        if self.backoffs >= MAX_BACKOFFS {
+            return Finish::at(Status::NonFinite, u, fu);
+        }
+        self.backoffs += 1;
+        let target = midpoint(x, u);
+        if target > lo && target < hi && target != x && !self.avoid.contains(&target) {
+            Ask::Eval(target, StepKind::Backtrack)
+        } else {
+            Finish::at(Status::NonFinite, u, fu)
+        }
     }
 
     /// The inverse quadratic point when Chandrupatla's test accepts it, kept a fraction
@@ -308,10 +338,9 @@ impl ScalarMethod for Hybrid {
             (Phase::Running, Some((x, fx))) => {
                 self.iterations += 1;
                 if fx.is_nan() {
-                    // No sign, so the bracket cannot be narrowed.
-                    let (u, fu) = self.best();
-                    return Finish::at(Status::NonFinite, u, fu);
+                    return self.back_off(x);
                 }
+                self.backoffs = 0;
                 self.update(x, fx);
                 self.next(ctx)
             }
@@ -353,7 +382,7 @@ fn gap(x: f64, lo: f64, hi: f64) -> f64 {
 /// one sign more than a factor of 8 apart, the midpoint of their binary representations
 /// (near the geometric mean); across zero with ends more than a factor of 1000 apart, zero.
 fn split_point(a: f64, b: f64) -> f64 {
-    let m = a + (b - a) / 2.0;
+    let m = midpoint(a, b);
     if a == 0.0 || b == 0.0 {
         return m;
     }
@@ -369,6 +398,16 @@ fn split_point(a: f64, b: f64) -> f64 {
         c
     } else {
         m
+    }
+}
+
+/// The midpoint of [a, b], without overflow for ends near ±f64::MAX.
+pub(crate) fn midpoint(a: f64, b: f64) -> f64 {
+    let m = a + (b - a) / 2.0;
+    if m.is_finite() {
+        m
+    } else {
+        a / 2.0 + b / 2.0
     }
 }
 
@@ -413,5 +452,8 @@ mod tests {
         assert_eq!(split_point(-1e4, 1e-4), 0.0);
         // One end at zero: the midpoint.
         assert_eq!(split_point(0.0, 1.0), 0.5);
+        // Ends near the largest float: no overflow.
+        assert_eq!(split_point(-f64::MAX, f64::MAX), 0.0);
+        assert_eq!(midpoint(-f64::MAX, f64::MAX), 0.0);
     }
 }

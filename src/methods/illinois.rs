@@ -106,7 +106,7 @@ impl Illinois {
             return Finish::at(Status::ConvergedResidual, u, fu);
         }
         let (a, b) = (self.a, self.b);
-        let m = a + (b - a) / 2.0;
+        let m = super::hybrid::midpoint(a, b);
         let tol = ctx.tol.x_tol(u);
         if m <= a || m >= b || b - a <= 2.0 * tol {
             return Finish::at(Status::ConvergedStep, u, fu);

@@ -131,6 +131,9 @@ pub struct Auxiliary {
     pub meaning: String,
     pub dimension: String,
     pub unit: String,
+    /// The auxiliary's own equation: one line of `equations`, using no definitions.
+    /// Solved alone inside the nested solve (see [`solve_template`]).
+    pub equation: String,
     pub bounds: [f64; 2],
     pub guesses: [f64; 2],
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -152,6 +155,8 @@ pub struct Output {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct Comparison {
+    /// The name under which the approximate value is listed in the outputs.
+    pub symbol: String,
     pub label: String,
     pub expr: String,
     pub against: String,
@@ -334,19 +339,20 @@ pub struct TemplateSolution {
 
 /// Six significant figures, for notes.
 fn sig(x: f64) -> String {
-    if x == 0.0 || !x.is_finite() {
-        return format!("{x}");
-    }
-    let digits = 6 - 1 - x.abs().log10().floor() as i32;
-    if (-4..=15).contains(&(5 - digits)) && digits >= 0 {
-        let s = format!("{:.*}", digits as usize, x);
-        if s.contains('.') {
-            s.trim_end_matches('0').trim_end_matches('.').to_string()
-        } else {
-            s
-        }
+    let rounded: f64 = format!("{x:.5e}").parse().unwrap_or(x);
+    if rounded == 0.0 || (1e-4..1e9).contains(&rounded.abs()) || !rounded.is_finite() {
+        format!("{rounded}")
     } else {
-        format!("{x:.5e}")
+        format!("{rounded:e}")
+    }
+}
+
+/// A value for notes, with its unit unless it is a pure number.
+fn with_unit(x: f64, unit: &str) -> String {
+    if unit == "1" {
+        sig(x)
+    } else {
+        format!("{} {unit}", sig(x))
     }
 }
 
@@ -404,7 +410,7 @@ fn limited(
     } else {
         bounds.hi
     };
-    if !(lo < hi) {
+    if lo >= hi || lo.is_nan() || hi.is_nan() {
         return Err(InputError::new(
             "no-solution-range",
             format!(
@@ -622,16 +628,54 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
             bounds: b,
         });
     }
+    let mut notes = Vec::new();
     let set_knowns: Vec<(String, f64)> = knowns
         .iter()
         .filter(|(s, _)| used.iter().any(|u| u == s))
         .cloned()
         .collect();
-    let solution = solve_set(&set, &set_knowns, &specs, &req.options, req.sensitivities)?;
-    let root_si = solution.unknowns[0].1;
+    let mut solution = solve_set(&set, &set_knowns, &specs, &req.options, req.sensitivities)?;
+    if !solution.converged && !t.auxiliary.is_empty() {
+        // The coupled solve did not converge: solve the unknown alone, with the
+        // auxiliary equations solved inside each evaluation, then polish the whole set
+        // from that point so that the result is the set's own solution.
+        if let Some(start) = nested_solve(t, &text, &set_knowns, &specs, &req.options)? {
+            let polished: Vec<UnknownSpec> = specs
+                .iter()
+                .zip(&start)
+                .map(|(spec, &x)| {
+                    let step = 1e-7 * x.abs().max(1e-300);
+                    let other = if spec.bounds.contains(x + step) {
+                        x + step
+                    } else {
+                        x - step
+                    };
+                    UnknownSpec {
+                        guesses: Some((x, other)),
+                        ..spec.clone()
+                    }
+                })
+                .collect();
+            let again = solve_set(
+                &set,
+                &set_knowns,
+                &polished,
+                &req.options,
+                req.sensitivities,
+            )?;
+            if again.converged {
+                notes.push(
+                    "Solved by nesting: the auxiliary equations were solved inside each \
+                     evaluation of the unknown, then the whole set was polished together."
+                        .to_string(),
+                );
+                solution = again;
+            }
+        }
+    }
+    let root_si = solution.unknowns.first().map_or(f64::NAN, |u| u.1);
     let value = units::from_si_in(root_si, &unit, &unknown.dimension)?;
 
-    let mut notes = Vec::new();
     let mut other_roots = Vec::new();
 
     // Every root in the template's range, for multi-root templates.
@@ -664,15 +708,15 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
                 .map(|(&x, l)| {
                     let v = units::from_si_in(x, &unit, &unknown.dimension).unwrap_or(f64::NAN);
                     match l {
-                        Some(l) => format!("{} {unit} ({l})", sig(v)),
-                        None => format!("{} {unit}", sig(v)),
+                        Some(l) => format!("{}, {l}", with_unit(v, &unit)),
+                        None => with_unit(v, &unit),
                     }
                 })
                 .collect();
             let range = format!(
-                "{} to {} {unit}",
+                "{} to {}",
                 sig(units::from_si_in(lo, &unit, &unknown.dimension)?),
-                sig(units::from_si_in(hi, &unit, &unknown.dimension)?)
+                with_unit(units::from_si_in(hi, &unit, &unknown.dimension)?, &unit)
             );
             if roots.is_empty() {
                 notes.push(format!("No root of {} found from {range}.", unknown.symbol));
@@ -707,19 +751,26 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
     let refs: Vec<&str> = all_names.iter().map(String::as_str).collect();
     let lookup = |s: &str| refs.iter().position(|n| *n == s).map(|i| all_values[i]);
     let mut outputs = Vec::new();
+    let mut approximations = Vec::new();
     if solution.converged {
         for c in &t.comparisons {
             let place = format!("comparison in template {}", t.id);
             let approx = eval(&c.expr, &refs, &all_values, &place)?;
+            approximations.push(OutputValue {
+                symbol: c.symbol.clone(),
+                meaning: c.label.clone(),
+                value: approx,
+                unit: "1".to_string(),
+            });
             if let Some(exact) = lookup(&c.against) {
                 let diff = 100.0 * (approx - exact) / exact;
                 notes.push(format!(
-                    "{}: {} = {} ({}{} % from the implicit value {}).",
+                    "{}: {} = {} ({}{:.3} % from the implicit value {}).",
                     c.label,
                     c.against,
                     sig(approx),
                     if diff >= 0.0 { "+" } else { "" },
-                    sig(diff),
+                    diff,
                     sig(exact)
                 ));
             }
@@ -756,6 +807,7 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
             solution.status.diagnosis()
         ));
     }
+    outputs.extend(approximations);
     other_roots.sort_by(f64::total_cmp);
     Ok(TemplateSolution {
         solution,
@@ -766,6 +818,87 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
         caution: t.caution.clone(),
         outputs,
     })
+}
+
+/// The main equations: the template text without the auxiliaries' own lines.
+fn main_text(t: &Template, text: &str) -> String {
+    text.lines()
+        .filter(|line| !t.auxiliary.iter().any(|a| line.trim() == a.equation.trim()))
+        .collect::<Vec<_>>()
+        .join("\n")
+}
+
+/// Solves for the unknown alone (`specs[0]`), the auxiliaries (`specs[1..]`) being
+/// solved from their own equations at each trial value. Returns every unknown's value
+/// at the solution, or `None` if the nested solve did not converge.
+fn nested_solve(
+    t: &Template,
+    text: &str,
+    knowns: &[(String, f64)],
+    specs: &[UnknownSpec],
+    options: &Options,
+) -> Result<Option<Vec<f64>>, InputError> {
+    let declared: Vec<&str> = t
+        .variables
+        .iter()
+        .map(|v| v.symbol.as_str())
+        .chain(t.auxiliary.iter().map(|a| a.symbol.as_str()))
+        .collect();
+    let aux_text: Vec<&str> = t.auxiliary.iter().map(|a| a.equation.as_str()).collect();
+    let aux_set = EquationSet::parse_declaring(&aux_text.join("\n"), &declared)?;
+    let main_set = EquationSet::parse_declaring(&main_text(t, text), &declared)?;
+    let aux_used = aux_set.variables();
+    let main_used = main_set.variables();
+    let unknown = &specs[0];
+    let aux_specs = &specs[1..];
+    let solve_aux = |x: f64| -> Option<Vec<f64>> {
+        let mut k: Vec<(String, f64)> = knowns
+            .iter()
+            .filter(|(s, _)| aux_used.contains(s))
+            .cloned()
+            .collect();
+        if aux_used.contains(&unknown.name) {
+            k.push((unknown.name.clone(), x));
+        }
+        let s = solve_set(&aux_set, &k, aux_specs, options, false).ok()?;
+        s.converged
+            .then(|| s.unknowns.iter().map(|(_, v)| *v).collect())
+    };
+    let residual = |x: f64, aux: &[f64]| -> f64 {
+        let mut k: Vec<(String, f64)> = knowns
+            .iter()
+            .filter(|(s, _)| main_used.contains(s))
+            .cloned()
+            .collect();
+        for (spec, &v) in aux_specs.iter().zip(aux) {
+            if main_used.contains(&spec.name) {
+                k.push((spec.name.clone(), v));
+            }
+        }
+        match main_set.residual_fn(&k, &unknown.name) {
+            Ok(mut f) => f(x),
+            Err(_) => f64::NAN,
+        }
+    };
+    let outer = Options {
+        bounds: unknown.bounds,
+        ..*options
+    };
+    let (a, b) = unknown
+        .guesses
+        .unwrap_or((unknown.bounds.lo, unknown.bounds.hi));
+    let sol = crate::driver::solve(crate::driver::Start::Guesses(a, b), &outer, |x| {
+        solve_aux(x).map_or(f64::NAN, |aux| residual(x, &aux))
+    })?;
+    if !sol.converged {
+        return Ok(None);
+    }
+    let Some(aux) = solve_aux(sol.root) else {
+        return Ok(None);
+    };
+    let mut out = vec![sol.root];
+    out.extend(aux);
+    Ok(Some(out))
 }
 
 /// Checks the catalogue: every id unique, every unit and dimension known, every
@@ -810,6 +943,12 @@ pub fn check_catalogue() -> Vec<String> {
         }
         for a in &t.auxiliary {
             units_to_check.push((&a.unit, &a.dimension));
+            if !t.equations.lines().any(|l| l.trim() == a.equation.trim()) {
+                problems.push(at(format!(
+                    "auxiliary {}: its equation is not a line of the equations",
+                    a.symbol
+                )));
+            }
         }
         for o in &t.outputs {
             units_to_check.push((&o.unit, &o.dimension));
@@ -852,6 +991,16 @@ pub fn check_catalogue() -> Vec<String> {
                         set.equation_count(),
                         t.auxiliary.len()
                     )));
+                }
+                if !t.auxiliary.is_empty() {
+                    match EquationSet::parse_declaring(&main_text(t, &text), &declared) {
+                        Ok(main) if main.equation_count() == 1 => {}
+                        Ok(main) => problems.push(at(format!(
+                            "{} main equations once the auxiliaries' lines are removed",
+                            main.equation_count()
+                        ))),
+                        Err(e) => problems.push(at(format!("main equations: {}", e.message))),
+                    }
                 }
                 let defs = set.definition_names();
                 for o in &t.outputs {

@@ -30,6 +30,62 @@ test("init twice is harmless, and init rejects a wrong argument", async () => {
   await assert.rejects(() => tacit.init(42), { code: "bad-type" });
 });
 
+test("a template in chosen units: Colebrook friction factor", () => {
+  const Re = 360000;
+  const eps = 0.15e-3; // m
+  const D = 0.3; // m
+  const r = tacit.solveTemplate({
+    id: "pipes.colebrook",
+    values: { Re, eps: { value: 0.15, unit: "mm" }, D: { value: D / 0.0254, unit: "in" } },
+    unknown: "f",
+    history: true,
+  });
+  assert.equal(r.converged, true);
+  assert.equal(r.value, r.root);
+  // The Colebrook (1939) equation itself, evaluated here with JS Math at the answer.
+  const f = r.value;
+  const residual = 1 / Math.sqrt(f) + 2 * Math.log10(eps / (3.7 * D) + 2.51 / (Re * Math.sqrt(f)));
+  assert.ok(Math.abs(residual) < 1e-9, `Colebrook residual ${residual}`);
+  // Swamee and Jain (1976) explicit form, stated to be within about 1 % of Colebrook.
+  const fSJ = 0.25 / Math.log10(eps / (3.7 * D) + 5.74 / Re ** 0.9) ** 2;
+  close(f, fSJ, 0.015, "f against Swamee–Jain");
+  assert.equal(r.history.length, r.evaluations);
+  assert.ok(r.notes.length > 0);
+});
+
+test("a two-branch template returns both roots: area ratio to Mach number", () => {
+  // NACA Report 1135 (1953) isentropic flow table, gamma = 1.4, A/A* = 2.0:
+  // M = 0.3059 subsonic and M = 2.197 supersonic (table values recalled from memory).
+  const r = tacit.solveTemplate({ id: "gas.area-mach", values: { AR: 2, g: 1.4 }, unknown: "M" });
+  assert.equal(r.converged, true);
+  const roots = [r.value, ...r.otherRoots].sort((a, b) => a - b);
+  assert.equal(roots.length, 2);
+  close(roots[0], 0.3059, 1e-3, "subsonic M");
+  close(roots[1], 2.197, 1e-3, "supersonic M");
+  // And each satisfies the area–Mach relation (NACA 1135 eq. 80) evaluated with JS Math.
+  for (const M of roots) {
+    const ar = (1 / M) * ((2 / 2.4) * (1 + 0.2 * M * M)) ** (2.4 / 0.8);
+    close(ar, 2, 1e-9, `A/A* at M = ${M}`);
+  }
+});
+
+test("the catalogue has full metadata, enough to build a form", () => {
+  const list = tacit.catalogue();
+  assert.ok(list.length > 0);
+  for (const t of list) {
+    assert.equal(typeof t.id, "string");
+    assert.equal(typeof t.title, "string");
+    assert.equal(typeof t.equations, "string");
+    assert.ok(Array.isArray(t.variables) && t.variables.length > 0);
+    for (const v of t.variables) {
+      assert.equal(typeof v.symbol, "string");
+      assert.equal(typeof v.unit, "string");
+      assert.ok(Array.isArray(v.units));
+    }
+  }
+  assert.throws(() => tacit.solveTemplate({ id: "no.such", values: {}, unknown: "x" }), (e) => e instanceof tacit.TacitError);
+});
+
 test("a text equation with a definition, solved for the diameter", () => {
   // Continuity Q = V·A with A = πD²/4, so D = sqrt(4Q/(πV)) (closed form, common practice).
   const r = tacit.solveEquation({

@@ -115,9 +115,9 @@ const CALLBACKS = [
   () => Promise.resolve(1),
   () => 10n,
   (x) => (Array.isArray(x) ? x.map(String) : String(x)),
-  (x) => (Array.isArray(x) ? [] : x),
-  (x) => (Array.isArray(x) ? new Array(x.length + 1).fill(0) : x),
-  (x) => (Array.isArray(x) ? [NaN] : x),
+  (x) => (Array.isArray(x) ? [] : [x]),
+  (x) => (Array.isArray(x) ? new Array(x.length + 1).fill(0) : { valueOf: () => x }),
+  (x) => (Array.isArray(x) ? [NaN] : new Number(x)),
 ];
 
 /** Calls `run`; it may return or throw, but a throw must not be a trap. */
@@ -153,6 +153,9 @@ function assertStillSolves() {
   while (!s.done) s.tell(s.next() ** 2 - 2);
   assert.ok(Math.abs(s.result.root - Math.SQRT2) < 1e-12);
   s.free();
+  const t = tacit.solveTemplate({ id: "gas.area-mach", values: { AR: 2, g: 1.4 }, unknown: "M" });
+  assert.equal(t.converged, true);
+  assert.equal(t.otherRoots.length, 1);
 }
 
 test("the public API answers garbage with TacitErrors", async () => {
@@ -184,6 +187,11 @@ test("the public API answers garbage with TacitErrors", async () => {
       calls.push([`sweep .${key}`, () => tacit.sweep({ equations: "x^2 = a", input: "a", from: 1, to: 2, points: 3, [key]: g })]);
       calls.push([`findRoots .${key}`, () => tacit.findRoots({ equations: "x^2 = 2", range: [0, 2], [key]: g })]);
     }
+    for (const key of ["id", "values", "unknown", "resultUnit", "guesses", "method", "tolerances", "history", "sensitivities"]) {
+      calls.push([`solveTemplate .${key}`, () => tacit.solveTemplate({ id: "pipes.colebrook", values: { Re: 1e5 }, unknown: "f", [key]: g })]);
+    }
+    calls.push([`solveTemplate values.Re`, () => tacit.solveTemplate({ id: "pipes.colebrook", values: { Re: g }, unknown: "f" })]);
+    calls.push([`solveTemplate values.D.unit`, () => tacit.solveTemplate({ id: "pipes.colebrook", values: { D: { value: 1, unit: g } }, unknown: "f" })]);
     for (const key of ["guesses", "bracket", "method", "tolerances", "bounds", "history"]) {
       calls.push([`Stepper.create .${key}`, () => tacit.Stepper.create({ guesses: [1, 2], [key]: g })]);
     }
@@ -215,7 +223,11 @@ test("callbacks that throw or return garbage give callback errors", async () => 
       try {
         const r = await run();
         // Returning NaN or Infinity is a legal value: the solve ends with an honest status.
-        assert.equal(r.converged, false, `${label} with callback ${i} claims convergence`);
+        if ("roots" in r && !("converged" in r)) {
+          assert.ok(r.roots.every((root) => !root.converged), `${label} with callback ${i} claims a root`);
+        } else {
+          assert.equal(r.converged, false, `${label} with callback ${i} claims convergence`);
+        }
       } catch (e) {
         threw = e;
       }

@@ -121,8 +121,8 @@ def dependent(t, v):
         T, P, Tc, Pc = v["T"], v["P"], v["Tc"], v["Pc"]
         if i == "thermo.peng-robinson":
             kap = 0.37464 + 1.54226 * v["w"] - 0.26992 * v["w"] ** 2
-            a = 0.45724 * R**2 * Tc**2 / Pc * (1 + kap * (1 - math.sqrt(T / Tc))) ** 2
-            b = 0.07780 * R * Tc / Pc
+            a = 0.45723552892138219 * R**2 * Tc**2 / Pc * (1 + kap * (1 - math.sqrt(T / Tc))) ** 2
+            b = 0.077796073903888456 * R * Tc / Pc
             g = lambda V: R * T / (V - b) - a / (V * V + 2 * b * V - b * b) - P
         else:
             a, b = 27 * R**2 * Tc**2 / (64 * Pc), R * Tc / (8 * Pc)
