@@ -96,6 +96,12 @@ fn text_of(v: Value) -> String {
     v.to_string()
 }
 
+/// One type for every scalar function handed to the generic core, so that each core
+/// routine is compiled once into the wasm module, not once per closure.
+fn erase(f: &mut impl FnMut(f64) -> f64) -> &mut dyn FnMut(f64) -> f64 {
+    f
+}
+
 // ---------------------------------------------------------------------------------------
 // Reading requests
 
@@ -433,9 +439,9 @@ pub fn scalar_setup(request: &str) -> Result<(Start, Options), InputError> {
 
 /// Solves f(x) = 0 for a Rust closure with options given as JSON (the native
 /// counterpart of `solveFunction`).
-pub fn solve_function(request: &str, f: impl FnMut(f64) -> f64) -> Result<String, InputError> {
+pub fn solve_function(request: &str, mut f: impl FnMut(f64) -> f64) -> Result<String, InputError> {
     let (start, options) = scalar_setup(request)?;
-    let solution = crate::driver::solve(start, &options, f)?;
+    let solution = crate::driver::solve(start, &options, erase(&mut f))?;
     Ok(text_of(solution_value(&solution)))
 }
 
@@ -847,16 +853,15 @@ pub fn sweep(request: &str) -> Result<String, InputError> {
             from + (to - from) * (i as f64 / (points - 1) as f64)
         };
         knowns[slot].1 = value;
-        let residual = set.residual_fn(&knowns, &unknown)?;
+        let mut residual = set.residual_fn(&knowns, &unknown)?;
         let (a, b) = last
             .and_then(|r| continuation_guesses(r, before, options.bounds))
             .unwrap_or(first);
-        let s = crate::driver::solve(Start::Guesses(a, b), &options, residual).map_err(|e| {
-            InputError {
+        let s = crate::driver::solve(Start::Guesses(a, b), &options, erase(&mut residual))
+            .map_err(|e| InputError {
                 message: format!("at {input} = {value}: {}", e.message),
                 ..e
-            }
-        })?;
+            })?;
         if s.converged {
             before = last;
             last = Some(s.root);
@@ -934,19 +939,22 @@ pub fn find_roots(request: &str) -> Result<String, InputError> {
     let given: Vec<&str> = knowns.iter().map(|(n, _)| n.as_str()).collect();
     let unknown = the_one_unknown(&f, &set, &given)?;
     let (lo, hi, scan) = scan_setup(&f)?;
-    let residual = set.residual_fn(&knowns, &unknown)?;
-    let found = roots_in_range::roots_in_range(lo, hi, &scan, residual)?;
+    let mut residual = set.residual_fn(&knowns, &unknown)?;
+    let found = roots_in_range::roots_in_range(lo, hi, &scan, erase(&mut residual))?;
     Ok(text_of(range_roots_value(&found)))
 }
 
 /// All roots in a range of a Rust closure (the native counterpart of `findRoots` with a
 /// JS function): `{range, samples?, tolerances?}`.
-pub fn find_roots_function(request: &str, f: impl FnMut(f64) -> f64) -> Result<String, InputError> {
+pub fn find_roots_function(
+    request: &str,
+    mut f: impl FnMut(f64) -> f64,
+) -> Result<String, InputError> {
     let map = parse_request(request)?;
     let fields = Fields::new(&map, "request");
     fields.only(&["range", "samples", "tolerances"])?;
     let (lo, hi, scan) = scan_setup(&fields)?;
-    let found = roots_in_range::roots_in_range(lo, hi, &scan, f)?;
+    let found = roots_in_range::roots_in_range(lo, hi, &scan, erase(&mut f))?;
     Ok(text_of(range_roots_value(&found)))
 }
 
@@ -975,7 +983,7 @@ pub fn system_solution_value(s: &broyden::SystemSolution) -> Value {
 /// `{x0, tolerances?, bounds?, history?}`.
 pub fn solve_system_function(
     request: &str,
-    f: impl FnMut(&[f64], &mut [f64]),
+    mut f: impl FnMut(&[f64], &mut [f64]),
 ) -> Result<String, InputError> {
     let map = parse_request(request)?;
     let fields = Fields::new(&map, "options");
@@ -1025,7 +1033,8 @@ pub fn solve_system_function(
         bounds,
         record_history: fields.boolean("history")?,
     };
-    let solution = broyden::solve_system(&x0, &options, f)?;
+    let solution =
+        broyden::solve_system(&x0, &options, &mut f as &mut dyn FnMut(&[f64], &mut [f64]))?;
     Ok(text_of(system_solution_value(&solution)))
 }
 

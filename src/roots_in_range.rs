@@ -10,8 +10,9 @@ use crate::tolerances::{Bounds, Tolerances};
 pub const MAX_SAMPLES: usize = 1_000_000;
 
 /// A touching root is accepted when |f| at the refined minimum is at most this many
-/// times the largest |f| among the samples (or at most `tol.f_abs`).
-pub const TOUCH_REL: f64 = 1e-10;
+/// times the largest |f| among the samples (or at most `tol.f_abs`); the same test as
+/// the default method's for a touching root.
+pub const TOUCH_REL: f64 = crate::methods::auto::TOUCH_REL;
 
 /// How to scan.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -285,10 +286,10 @@ pub fn roots_in_range(
     let mut limits = format!(
         "Scanned [{lo}, {hi}] at {n} evenly spaced samples, {h:e} apart. Roots closer \
          together than about {h:e} may be missed (two sign changes within one spacing \
-         cancel out), and so may a touching root whose dip does not show as a local minimum \
-         of |f| among the samples. A touching root is accepted when |f| at its refined \
-         minimum is at most {touch_limit:e} (1e-10 times the largest sampled |f|, or the \
-         residual tolerance)."
+         cancel out), and so may a touching root whose dip does not show as a local \
+         minimum of |f| among the samples, or that lies within one spacing of either end. \
+         A touching root is accepted when |f| at its refined minimum is at most \
+         {touch_limit:e} (1e-10 times the largest sampled |f|, or the residual tolerance)."
     );
     if nonfinite > 0 {
         limits.push_str(&format!(

@@ -256,3 +256,79 @@ fn bad_input_names_the_value() {
     let e = solve_system(&[2.0], &options, f).unwrap_err();
     assert!(e.message.contains("x_rel"), "{}", e.message);
 }
+
+#[test]
+fn more_garbow_hillstrom_problems() {
+    // Moré, Garbow & Hillstrom, "Testing unconstrained optimization software", ACM TOMS
+    // 7(1) 1981, problems recalled from memory with their standard starting points.
+    let generous = SystemOptions {
+        tol: Tolerances {
+            max_evals: 500,
+            ..Tolerances::default()
+        },
+        ..SystemOptions::default()
+    };
+    // Problem 3, Powell badly scaled, from (0, 1): root (1.098159e-5, 9.106146).
+    let s = solve_system(&[0.0, 1.0], &generous, |x, o| {
+        o[0] = 1e4 * x[0] * x[1] - 1.0;
+        o[1] = (-x[0]).exp() + (-x[1]).exp() - 1.0001;
+    })
+    .unwrap();
+    assert!(s.converged, "{s:?}");
+    assert!(
+        (s.x[0] - 1.098159e-5).abs() < 1e-11 && (s.x[1] - 9.106146).abs() < 1e-5,
+        "{:?}",
+        s.x
+    );
+    // Problem 7, helical valley, from (-1, 0, 0): root (1, 0, 0).
+    let s = solve_system(&[-1.0, 0.0, 0.0], &generous, |x, o| {
+        let turn = (x[1] / x[0]).atan() / (2.0 * std::f64::consts::PI);
+        let theta = if x[0] > 0.0 { turn } else { turn + 0.5 };
+        o[0] = 10.0 * (x[2] - 10.0 * theta);
+        o[1] = 10.0 * ((x[0] * x[0] + x[1] * x[1]).sqrt() - 1.0);
+        o[2] = x[2];
+    })
+    .unwrap();
+    assert!(s.converged, "{s:?}");
+    assert!(
+        (s.x[0] - 1.0).abs() < 1e-10 && s.x[1].abs() < 1e-10 && s.x[2].abs() < 1e-10,
+        "{:?}",
+        s.x
+    );
+    // Problem 30, Broyden tridiagonal, n = 10 from all -1: checked by its residuals.
+    let s = solve_system(&[-1.0; 10], &generous, |x, o| {
+        let n = x.len();
+        for i in 0..n {
+            let before = if i > 0 { x[i - 1] } else { 0.0 };
+            let after = if i + 1 < n { x[i + 1] } else { 0.0 };
+            o[i] = (3.0 - 2.0 * x[i]) * x[i] - before - 2.0 * after + 1.0;
+        }
+    })
+    .unwrap();
+    assert!(s.converged, "{s:?}");
+    assert!(
+        s.residuals.iter().all(|r| r.abs() < 1e-10),
+        "{:?}",
+        s.residuals
+    );
+}
+
+#[test]
+fn local_minimum_of_the_residual_is_not_a_root() {
+    // Moré, Garbow & Hillstrom problem 2, Freudenstein and Roth, from (0.5, -2): the
+    // root is (5, 4), but the iteration is drawn to the local minimum of ‖F‖ near
+    // (11.41, -0.8968), where F ≠ 0 (recalled from memory). Converged only at the root.
+    let s = solve_system(&[0.5, -2.0], &SystemOptions::default(), |x, o| {
+        o[0] = -13.0 + x[0] + ((5.0 - x[1]) * x[1] - 2.0) * x[1];
+        o[1] = -29.0 + x[0] + ((x[1] + 1.0) * x[1] - 14.0) * x[1];
+    })
+    .unwrap();
+    if s.converged {
+        assert!(
+            (s.x[0] - 5.0).abs() < 1e-9 && (s.x[1] - 4.0).abs() < 1e-9,
+            "{s:?}"
+        );
+    } else {
+        assert!(s.residuals.iter().any(|r| r.abs() > 1.0), "{s:?}");
+    }
+}

@@ -4,7 +4,7 @@
 
 import * as tacit from '../dist/pkg/tacit.js';
 import { h, clear, byId, download } from './dom.js';
-import { fmt, full, parseNumber } from './format.js';
+import { fmt, full, parseNumber, prettyUnit } from './format.js';
 import { equationToMathML, symbolMathML } from './mathml.js';
 import { normalizeTemplate, buildCatalogueNav } from './catalogue.js';
 import { defaultState, decodeFragment, encodeFragment, validateState, compactState } from './state.js';
@@ -20,6 +20,7 @@ const app = {
   S: defaultState(),
   templates: [],
   byId: new Map(),
+  units: new Map(),
   nav: null,
   wasm: null,
   saved: [],
@@ -29,7 +30,7 @@ const app = {
   sweepResult: null,
 };
 // For the end-to-end tests and the benchmark: read-only facts about the page's progress.
-const probe = { ready: false, solves: 0, firstSolveMs: null, lastSweepMs: null, sweeps: 0, workerStarts: 0 };
+const probe = { marks: {}, ready: false, solves: 0, firstSolveMs: null, lastSweepMs: null, sweeps: 0, workerStarts: 0 };
 globalThis.tacitPage = probe;
 
 // ---- notices --------------------------------------------------------------------------
@@ -162,7 +163,7 @@ function renderVarsTable() {
     let unitCell;
     if (v.units.length) {
       const sel = h('select', { id: `unit-${v.symbol}`, 'aria-label': `Unit of ${v.symbol}` });
-      for (const u of v.units) sel.append(h('option', { value: u }, u === '1' ? '1 (ratio)' : u));
+      for (const u of v.units) sel.append(h('option', { value: u }, u === '1' ? '1 (ratio)' : prettyUnit(u)));
       sel.value = entry.u && v.units.includes(entry.u) ? entry.u : v.unit;
       sel.addEventListener('change', () => {
         S.values[v.symbol] = { v: S.values[v.symbol]?.v ?? input.value, u: sel.value };
@@ -438,8 +439,6 @@ function solve() {
     if (e.code === 'internal-panic' || e.code === 'instance-aborted') notify('The solver stopped with an internal error. Reload the page to start it again; your calculation is kept in the link.');
     return null;
   }
-  probe.solves++;
-  if (probe.firstSolveMs === null) probe.firstSolveMs = performance.now();
   app.lastResult = { built, r };
   presentResult(built, r);
   return r;
@@ -450,22 +449,26 @@ function presentResult(built, r) {
   let answers;
   let xLabel = 'x';
   if (built.kind === 'template') {
-    answers = [{ symbol: S.unknown, value: r.value, unit: r.unit }];
-    xLabel = `${S.unknown}${r.unit && r.unit !== '1' ? ` (${historyUnit(r)})` : ''}`;
+    answers = [{ symbol: S.unknown, value: r.value, unit: prettyUnit(r.unit) }];
+    xLabel = `${S.unknown}${prettyUnit(r.unit) ? ` (${prettyUnit(historyUnit(r))})` : ''}`;
   } else {
     answers = Object.entries(r.unknowns).map(([symbol, value]) => ({ symbol, value, unit: '' }));
     xLabel = unknownList()[0] ?? 'x';
   }
   const t = currentTemplate();
+  const conv = siToResultUnit(built);
+  if (r.bracket) r.bracket = r.bracket.map(conv);
   showResult(r, {
     answers,
-    outputs: r.outputs ?? [],
+    outputs: (r.outputs ?? []).map((o) => ({ ...o, unit: prettyUnit(o.unit) })),
     settings: settingsFacts(built.req),
     notes: r.notes ?? [],
     caution: r.caution || (t?.caution ?? ''),
   });
-  const history = r.history ?? [];
-  showHistory(history, history.length ? sampleCurve(built, history) : null, xLabel);
+  probe.solves++;
+  if (probe.firstSolveMs === null) probe.firstSolveMs = performance.now();
+  const history = convertHistory(r.history ?? [], conv);
+  showHistory(history, history.length ? sampleCurve(built, history, conv) : null, xLabel);
   if (!history.length && r.systemHistory?.length) showSystemHistory(r.systemHistory);
   showSensitivities(r.sensitivities, meaningOf);
   showRootsCard(built, r);
@@ -478,9 +481,32 @@ function recordDate() {
   return `${d.getFullYear()}-${p2(d.getMonth() + 1)}-${p2(d.getDate())} ${p2(d.getHours())}:${p2(d.getMinutes())} (local time) · tacit ${tacit.version}`;
 }
 
-/** The unit of the history's x values: the template's history is in the result unit. */
+/** The unit of the history's x values as shown: the result unit. */
 function historyUnit(r) {
-  return r.historyUnit ?? r.unit;
+  return r.unit;
+}
+
+/**
+ * A template's history (and bracket) is in the SI unit of the unknown; the page shows it
+ * in the result unit. Returns a function from SI values to the result unit.
+ */
+function siToResultUnit(built) {
+  if (built.kind !== 'template') return (x) => x;
+  const v = currentTemplate()?.variables.find((x) => x.symbol === built.req.unknown);
+  const si = app.units.get(v?.dimension)?.[0];
+  const unit = built.req.resultUnit;
+  if (!si || !unit || si === unit) return (x) => x;
+  return (x) => (Number.isFinite(x) ? tacit.convertUnit(x, si, unit) : x);
+}
+
+function convertHistory(rows, conv) {
+  let prev = null;
+  return rows.map((r) => {
+    const x = conv(r.x);
+    const step = prev === null || r.step === null ? r.step : x - prev;
+    prev = x;
+    return { ...r, x, step, bracket: r.bracket ? r.bracket.map(conv) : r.bracket };
+  });
 }
 
 function showSystemHistory(rows) {
@@ -498,10 +524,52 @@ function showSystemHistory(rows) {
 }
 
 /**
+ * A template with one equation and no list or auxiliary unknown, as the same equation text
+ * with the given values in SI units (the units its equations are written in). The text
+ * calls (solveEquation, findRoots, sweep) are much quicker than repeated template solves,
+ * so plots, scans and sweeps use this form when it exists.
+ */
+function templateAsEquation(built) {
+  if (built.kind !== 'template') return null;
+  const t = currentTemplate();
+  if (!t || t.list || t.raw.auxiliary?.length) return null;
+  const check = tacit.checkEquation(t.equations);
+  if (!check.ok || check.equations !== 1) return null;
+  const variable = (sym) => t.variables.find((v) => v.symbol === sym);
+  const siOf = (sym) => app.units.get(variable(sym)?.dimension)?.[0];
+  const converter = (from, to) => (from === to ? (x) => x : (x) => (Number.isFinite(x) ? tacit.convertUnit(x, from, to) : x));
+  const knowns = {};
+  const inputUnits = {};
+  for (const e of built.req.values) {
+    const si = siOf(e.symbol);
+    if (!si) return null;
+    knowns[e.symbol] = converter(e.unit, si)(e.value);
+    inputUnits[e.symbol] = e.unit;
+  }
+  const unknown = built.req.unknown;
+  const v = variable(unknown);
+  const si = siOf(unknown);
+  if (!v || !si) return null;
+  const unit = built.req.resultUnit ?? v.unit;
+  const defaultToSI = converter(v.unit, si);
+  const pair = (p) => (Array.isArray(p) && p.length === 2 ? p.map((x) => defaultToSI(Number(x))) : undefined);
+  return {
+    equations: t.equations,
+    knowns,
+    unknown,
+    toSI: converter(unit, si),
+    fromSI: converter(si, unit),
+    inputToSI: (sym) => converter(inputUnits[sym], siOf(sym)),
+    bounds: pair(v.bounds)?.map((x, i) => (Number.isFinite(x) ? x : i === 0 ? -Infinity : Infinity)),
+    guesses: built.req.guesses ? built.req.guesses.map(converter(unit, si)) : pair(v.guesses),
+  };
+}
+
+/**
  * Samples f over the visited range with the solver's own residual: each sample is a solve
  * started at two points with a budget of two evaluations, whose history gives f at both.
  */
-function sampleCurve(built, history) {
+function sampleCurve(built, history, conv) {
   const xs = history.map((r) => r.x).filter(Number.isFinite);
   if (xs.length < 2) return null;
   let lo = Math.min(...xs);
@@ -512,10 +580,15 @@ function sampleCurve(built, history) {
   hi += pad;
   const n = 80;
   const out = [];
+  const asEq = templateAsEquation(built);
   const callOnce = (a, b) => {
     const base = { ...built.req, method: 'secant', tolerances: { maxEvals: 2 }, history: true, sensitivities: false };
     delete base.bracket;
     try {
+      if (asEq) {
+        const r = tacit.solveEquation({ equations: asEq.equations, knowns: asEq.knowns, unknowns: [{ name: asEq.unknown, guesses: [asEq.toSI(a), asEq.toSI(b)] }], method: 'secant', tolerances: { maxEvals: 2 }, history: true });
+        return r.history;
+      }
       if (built.kind === 'template') {
         return tacit.solveTemplate({ ...base, guesses: [a, b] }).history;
       }
@@ -528,7 +601,7 @@ function sampleCurve(built, history) {
   for (let i = 0; i < n; i += 2) {
     const a = lo + ((hi - lo) * i) / (n - 1);
     const b = lo + ((hi - lo) * (i + 1)) / (n - 1);
-    for (const row of callOnce(a, b).slice(0, 2)) if (row.kind === 'initial') out.push([row.x, row.fx]);
+    for (const row of callOnce(a, b).slice(0, 2)) if (row.kind === 'initial') out.push([conv(row.x), row.fx]);
   }
   out.sort((p, q) => p[0] - q[0]);
   return out;
@@ -589,12 +662,19 @@ function scanRoots() {
   if (!last) return;
   let found;
   try {
-    found = last.built.kind === 'template' ? scanTemplate(last.built, lo, hi) : tacit.findRoots({ equations: app.S.equations, knowns: last.built.req.knowns, unknown: unknownList()[0], range: [lo, hi] });
+    const asEq = templateAsEquation(last.built);
+    if (asEq) {
+      const [a, b] = [asEq.toSI(lo), asEq.toSI(hi)].sort((p, q) => p - q);
+      found = tacit.findRoots({ equations: asEq.equations, knowns: asEq.knowns, unknown: asEq.unknown, range: [a, b] });
+      found.roots = found.roots.map((rt) => ({ ...rt, x: asEq.fromSI(rt.x) })).sort((p, q) => p.x - q.x);
+      found.limits = found.limits ? `${found.limits} (The scan works in SI units.)` : found.limits;
+    } else if (last.built.kind === 'template') found = scanTemplate(last.built, lo, hi);
+    else found = tacit.findRoots({ equations: app.S.equations, knowns: last.built.req.knowns, unknown: unknownList()[0], range: [lo, hi] });
   } catch (e) {
     body.append(h('p', { class: 'error-text' }, e.message));
     return;
   }
-  const unit = last.built.kind === 'template' ? last.r.unit : '';
+  const unit = last.built.kind === 'template' ? prettyUnit(last.r.unit) : '';
   byId('roots').classList.toggle('has-roots', found.roots.length > 0);
   if (found.roots.length === 0) body.append(h('p', null, `No root between ${fmt(lo)} and ${fmt(hi)} ${unit}.`));
   else {
@@ -608,6 +688,7 @@ function scanRoots() {
  *  own residual: sampled on a grid, each sign change then solved from its two ends. */
 function scanTemplate(built, lo, hi) {
   const n = 200;
+  const conv = siToResultUnit(built);
   const pts = [];
   let evaluations = 0;
   for (let i = 0; i < n; i += 2) {
@@ -615,7 +696,7 @@ function scanTemplate(built, lo, hi) {
     const b = lo + ((hi - lo) * (i + 1)) / (n - 1);
     const r = tacit.solveTemplate({ ...built.req, guesses: [a, b], method: 'secant', tolerances: { maxEvals: 2 }, history: true, sensitivities: false });
     evaluations += r.evaluations;
-    for (const row of r.history.slice(0, 2)) pts.push([row.x, row.fx]);
+    for (const row of r.history.slice(0, 2)) pts.push([conv(row.x), row.fx]);
   }
   pts.sort((p, q) => p[0] - q[0]);
   const roots = [];
@@ -709,10 +790,29 @@ function buildSweepJob() {
   if (from === null || to === null) throw new FormError('Give the range of the sweep (From and To).');
   if (from === to) throw new FormError('The sweep range is empty: From equals To.');
   if (!Number.isInteger(nRaw) || nRaw < 2 || nRaw > 100000) throw new FormError(`Sweep points must be a whole number from 2 to 100000, got ${S.sweep.n}.`);
+  const asEq = templateAsEquation(built);
+  if (asEq) {
+    const knowns = { ...asEq.knowns };
+    delete knowns[input];
+    const toSI = asEq.inputToSI(input);
+    const request = { equations: asEq.equations, knowns, unknown: asEq.unknown, input, from: toSI(from), to: toSI(to), points: nRaw, method: built.req.method, tolerances: built.req.tolerances };
+    if (asEq.guesses) request.guesses = asEq.guesses;
+    if (asEq.bounds) request.bounds = asEq.bounds;
+    const inputUnit = built.req.values.find((v) => v.symbol === input)?.unit ?? '';
+    return {
+      job: { kind: 'equation', request },
+      input,
+      unknown: S.unknown,
+      unit: prettyUnit(built.req.resultUnit),
+      inputUnit: prettyUnit(inputUnit),
+      // Back to the units on the page: the inputs as typed, the unknown in its chosen unit.
+      finish: (result) => ({ ...result, input: result.input.map((_, i) => (i === nRaw - 1 ? to : from + ((to - from) * i) / (nRaw - 1))), root: result.root.map(asEq.fromSI) }),
+    };
+  }
   if (built.kind === 'template') {
     const req = { ...built.req, history: false, sensitivities: false };
     const inputUnit = req.values.find((v) => v.symbol === input)?.unit ?? '';
-    return { job: { kind: 'template', request: req, input, from, to, points: nRaw }, input, unknown: S.unknown, unit: req.resultUnit ?? '', inputUnit: inputUnit === '1' ? '' : inputUnit };
+    return { job: { kind: 'template', request: req, input, from, to, points: nRaw }, input, unknown: S.unknown, unit: prettyUnit(req.resultUnit), inputUnit: prettyUnit(inputUnit) };
   }
   if (unknownList().length !== 1) throw new FormError('A sweep solves for one unknown.');
   const knowns = { ...built.req.knowns };
@@ -757,7 +857,7 @@ function runSweep() {
       if (m.type === 'result') {
         probe.sweeps++;
         probe.lastSweepMs = m.ms;
-        app.sweepResult = { ...spec, result: m.result };
+        app.sweepResult = { ...spec, result: spec.finish ? spec.finish(m.result) : m.result };
         showSweep(app.sweepResult);
         const failed = m.result.converged.filter((c) => !c).length;
         status.textContent = `${m.result.input.length} points in ${m.ms.toFixed(0)} ms, ${m.result.totalEvaluations} evaluations${failed ? `; ${failed} did not converge (marked)` : ''}.`;
@@ -803,9 +903,10 @@ probe.timeDirectSweep = (n) => {
   const saved = app.S.sweep.n;
   app.S.sweep.n = String(n);
   try {
-    const { job } = buildSweepJob();
+    const spec = buildSweepJob();
     const t0 = performance.now();
-    runSweepJob(job);
+    const result = runSweepJob(spec.job);
+    if (spec.finish) spec.finish(result);
     return performance.now() - t0;
   } finally {
     app.S.sweep.n = saved;
@@ -1091,6 +1192,9 @@ function applyState(st, source, earlier = []) {
     if (state.external.stepper) restoreStepper(state.external.stepper, source);
   }
   hideResults();
+  byId('roots-lo').value = '';
+  byId('roots-hi').value = '';
+  clear(byId('roots-body'));
   byId('sweep-plot').textContent = '';
   byId('sweep-table').hidden = true;
   renderSetup();
@@ -1245,8 +1349,11 @@ function wire() {
 async function boot() {
   byId('tool-version').textContent = globalThis.__TACIT_VERSION ?? '';
   try {
+    probe.marks.start = performance.now();
     app.wasm = await wasmBytes();
+    probe.marks.inflated = performance.now();
     await tacit.init(app.wasm.slice());
+    probe.marks.instantiated = performance.now();
   } catch (e) {
     byId('calc-title').textContent = 'The solver could not start';
     notify(`The solver could not start in this browser: ${e.message}`);
@@ -1260,7 +1367,14 @@ async function boot() {
     notify(`The template catalogue could not be read (${e.message}); your own equations and evaluation by hand still work.`);
   }
   for (const t of app.templates) app.byId.set(t.id, t);
+  app.units = new Map();
+  try {
+    for (const d of tacit.units()) app.units.set(d.dimension, d.units);
+  } catch {
+    /* without the table, histories stay in SI units and say so */
+  }
   app.nav = buildCatalogueNav(byId('template-groups'), byId('search-empty'), app.templates, pickTemplate);
+  probe.marks.catalogue = performance.now();
   wire();
   const { items, problems } = loadSaved();
   app.saved = items;
@@ -1275,7 +1389,9 @@ async function boot() {
       applyState(st, 'own equations');
     }
   }
+  probe.marks.setUp = performance.now();
   solveIfReady();
+  probe.marks.solvedAndShown = performance.now();
   startWorker();
   probe.ready = true;
   document.documentElement.dataset.ready = 'true';

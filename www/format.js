@@ -45,3 +45,9 @@ export function parseNumber(text) {
   if (!Number.isFinite(v)) return { error: `"${String(text).slice(0, 40)}" is too large` };
   return { value: v };
 }
+
+/** A unit as people write it: kJ/(kg·K), m², s/m^(1/3). The unit's code stays as it is. */
+export function prettyUnit(u) {
+  if (!u || u === '1') return '';
+  return String(u).replace(/\*/g, '·').replace(/\^2(?![\d.])/g, '²').replace(/\^3(?![\d.])/g, '³');
+}

@@ -94,7 +94,7 @@ pub struct SetSolution {
     pub scalar: Option<Solution>,
     /// Broyden's solution when the whole set was one coupled block.
     pub system: Option<SystemSolution>,
-    /// Every definition at the solution, in text order.
+    /// Every definition at the final values, in text order.
     pub definitions: Vec<(String, f64)>,
     /// d unknown / d known for every pair (empty unless asked for and converged).
     pub sensitivities: Vec<Sensitivity>,
@@ -411,11 +411,8 @@ pub fn solve_set(
         .zip(&slots)
         .map(|(n, &s)| (n.clone(), values[s]))
         .collect();
-    let definitions = if converged {
-        layout.definition_values(&values)?
-    } else {
-        Vec::new()
-    };
+    // At the final values even when not converged (NaN where an unknown was not reached).
+    let definitions = layout.definition_values(&values)?;
     let (sens, sens_evals) = if sensitivities && converged {
         let history = scalar.as_ref().map(|s| s.history.as_slice());
         sensitivity::compute(&layout, &values, &names, &slots, knowns, history)?

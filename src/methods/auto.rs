@@ -118,7 +118,8 @@ struct SearchSide {
 /// [`Status::NonFinite`], [`Status::StuckAtBound`], [`Status::Flat`] (every value seen
 /// was the same), or [`Status::BudgetSpent`] (from the driver). It only reports
 /// converged through the hybrid (a bracket within tolerance), on the residual tolerance,
-/// or at a confirmed exact zero.
+/// at a touching root that passes the test of step 3, or at an exact zero (confirmed as
+/// in step 6 unless it is one of the guesses).
 ///
 /// - Order of convergence: the secant's (1 + √5)/2 ≈ 1.618 near a simple root, then
 ///   that of the hybrid once a bracket is known.
@@ -303,7 +304,7 @@ impl Auto {
         Finish::at(Status::Stagnated, x, fx)
     }
 
-    /// Starts the secant phase from the two newest good points.
+    /// The next secant step from (x0, f0) and (x1, f1), or the switch to the search.
     fn secant_next(&mut self, ctx: &Context) -> Ask {
         let (x0, f0, x1, f1) = (self.x0, self.f0, self.x1, self.f1);
         if f1 == f0 {

@@ -57,7 +57,10 @@ export async function shot(page, name, opts = {}) {
 
 /** Clicks a template in the catalogue by its id. */
 export async function pickTemplate(page, id) {
-  await page.click(`button[data-template="${id}"]`);
+  const button = page.locator(`button[data-template="${id}"]`);
+  // Open the template's field group first, as a person would, when it is folded.
+  if (!(await button.isVisible())) await page.locator('#template-groups details', { has: button }).locator('summary').click();
+  await button.click();
   await page.waitForSelector(`#vars tbody tr`);
 }
 
