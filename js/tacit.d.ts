@@ -137,6 +137,16 @@ export interface EquationRequest {
   sensitivities?: boolean;
 }
 
+export interface BlockReport {
+  unknowns: string[];
+  /** 0-based indices of the equations solved in this block. */
+  equations: number[];
+  converged: boolean;
+  status: StatusCode;
+  evaluations: number;
+  iterations: number;
+}
+
 export interface EquationResult extends SolveOutcome {
   /** The unknowns by name. */
   unknowns: Record<string, number>;
@@ -155,6 +165,8 @@ export interface EquationResult extends SolveOutcome {
   definitions: Record<string, number>;
   sensitivities: Sensitivity[];
   sensitivityEvaluations: number;
+  /** The blocks the set was split into, in the order solved. */
+  blocks: BlockReport[];
 }
 
 /** A given value of a template, in a unit of its dimension. */
@@ -166,8 +178,14 @@ export interface TemplateValue {
 export interface TemplateRequest {
   /** Template id from `catalogue()`. */
   id: string;
-  /** Given values by symbol. */
-  values: Readonly<Record<string, TemplateValue>>;
+  /**
+   * Given values by symbol: `{value, unit}`, `[value, unit]`, or a number in the variable's
+   * default unit; the list symbol (cash flows) takes a list of numbers. The list form
+   * `[{symbol, value, unit?}]` may repeat the list symbol.
+   */
+  values:
+    | Readonly<Record<string, TemplateValue | readonly [number, string] | number | ReadonlyArray<number>>>
+    | ReadonlyArray<{ symbol: string; value: number; unit?: string }>;
   /** The symbol to solve for. */
   unknown: string;
   /** Unit of the result (default: the template's default unit for the unknown). */
@@ -189,16 +207,123 @@ export interface TemplateResult extends EquationResult {
   notes: string[];
   /** A safety caution, where the result feeds a design that can hurt someone. */
   caution: string | null;
+  /** Auxiliary quantities, outputs and explicit approximations at the solution. */
+  outputs: TemplateOutputValue[];
 }
 
-/** Template metadata as published by the core: enough to build a form. */
+/** A labelled common value of a variable. */
+export interface TemplateChoice {
+  label: string;
+  value: number;
+}
+
+/** When this variable is the unknown, the range scanned for every root (expressions in SI). */
+export interface TemplateRootScan {
+  lo: string;
+  hi: string;
+  samples: number;
+  log: boolean;
+  threshold?: number;
+  below?: string;
+  above?: string;
+  smallest?: string;
+  middle?: string;
+  largest?: string;
+  single?: string;
+  several?: string;
+}
+
+/** A variable of a template; value, bounds and guesses are in `unit`. */
 export interface TemplateVariable {
   symbol: string;
-  [field: string]: unknown;
+  meaning: string;
+  dimension: string;
+  /** The default unit. */
+  unit: string;
+  /** The accepted units. */
+  units: string[];
+  /** The default value (a demo scenario). */
+  value: number;
+  /** Physical bounds; null is an open end. */
+  bounds: [number | null, number | null];
+  guesses: [number, number];
+  choices?: TemplateChoice[];
+  /** Tighter limits when this is the unknown, as expressions in SI of the knowns. */
+  limits?: [string, string];
+  roots?: TemplateRootScan;
 }
+
+/** A quantity solved together with every unknown (bounds and guesses in SI). */
+export interface TemplateAuxiliary {
+  symbol: string;
+  meaning: string;
+  dimension: string;
+  unit: string;
+  equation: string;
+  bounds: [number | null, number | null];
+  guesses: [number, number];
+  limits?: [string, string];
+}
+
+export interface TemplateOutput {
+  symbol: string;
+  meaning: string;
+  dimension: string;
+  unit: string;
+}
+
+/** An explicit approximation shown beside the implicit answer. */
+export interface TemplateComparison {
+  symbol: string;
+  label: string;
+  expr: string;
+  against: string;
+}
+
+export interface TemplateWarning {
+  /** An expression in SI; the text is a note when it is above zero. */
+  when: string;
+  text: string;
+}
+
+/** A list input (cash flows), written `{symbol}` in the equations. */
+export interface TemplateListInput {
+  symbol: string;
+  meaning: string;
+  dimension: string;
+  unit: string;
+  values: number[];
+}
+
+/** A bundled template with its full metadata: enough to build a form. */
 export interface TemplateInfo {
   id: string;
-  [field: string]: unknown;
+  title: string;
+  field: string;
+  description: string;
+  /** The equations in the equation language, in SI units. */
+  equations: string;
+  variables: TemplateVariable[];
+  auxiliary: TemplateAuxiliary[];
+  outputs: TemplateOutput[];
+  /** The symbols that may be the unknown. */
+  unknowns: string[];
+  unknownsReason?: string;
+  comparisons: TemplateComparison[];
+  warnings: TemplateWarning[];
+  validity: string[];
+  caution?: string;
+  /** The published source of the equation. */
+  source: string;
+  list?: TemplateListInput;
+}
+
+/** A value shown with a template result, in its display unit. */
+export interface TemplateOutputValue {
+  symbol: string;
+  meaning: string;
+  value: number;
+  unit: string;
 }
 
 export type RootKind = "sign-change" | "touching";
@@ -260,6 +385,9 @@ export interface SweepResult {
   evaluations: number[];
   /** Sum of `evaluations`. */
   totalEvaluations: number;
+  /** The unknown solved and the known swept. */
+  unknown: string;
+  inputName: string;
 }
 
 export interface SystemOptions {

@@ -172,14 +172,29 @@ function joinModules(entryPaths) {
   return `${prelude}${order.map((m) => m.code).join('\n')}\n__mod(typeof document === "undefined" ? ${worker.id} : ${page.id});\n`;
 }
 
-// Drops whole-line // comments and leading indentation, outside template literals. The
+// Drops whole-line comments and leading indentation, outside template literals. The
 // result is checked by parsing it (node --check); if that fails the text is kept as is.
 function slim(code) {
   let inTemplate = false;
+  let inBlock = false;
   const out = [];
   for (const line of code.split('\n')) {
     const t = line.trim();
     if (!inTemplate) {
+      // Whole-line block comments (doc comments) go too.
+      if (inBlock) {
+        if (t.includes('*/')) {
+          inBlock = false;
+          const rest = t.slice(t.indexOf('*/') + 2).trim();
+          if (rest) out.push(rest);
+        }
+        continue;
+      }
+      if (t.startsWith('/*') && !t.includes('*/')) {
+        inBlock = true;
+        continue;
+      }
+      if (t.startsWith('/*') && t.endsWith('*/') && t.indexOf('*/') === t.length - 2) continue;
       if (t === '' || (t.startsWith('//') && !t.startsWith('//#'))) continue;
       out.push(t);
     } else out.push(line);

@@ -1156,8 +1156,19 @@ fn template_values(f: &Fields, id: &str) -> Result<Vec<(String, f64, String)>, I
     match f.get("values") {
         None => {}
         Some(Value::Object(m)) => {
+            let list = template.and_then(|t| t.list.as_ref());
             for (symbol, v) in m {
                 let place = format!("request.values.{}", short_name(symbol, "a symbol")?);
+                // The list input (cash flows) takes a list of numbers in its default unit.
+                if let (Some(list), Value::Array(items)) = (list, v) {
+                    if &list.symbol == symbol && items.iter().all(Value::is_number) {
+                        for (i, item) in items.iter().enumerate() {
+                            let value = finite_value(item, &format!("{place}[{i}]"))?;
+                            out.push((symbol.clone(), value, list.unit.clone()));
+                        }
+                        continue;
+                    }
+                }
                 let (value, unit) = template_value(v, &place, unit_of(symbol))?;
                 out.push((symbol.clone(), value, unit));
             }

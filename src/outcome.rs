@@ -86,7 +86,8 @@ impl Status {
             }
             Status::Flat => {
                 "Not converged: the function had the same value at two points, so the secant \
-                 line never crosses zero. Try guesses farther apart, or a bracket."
+                 line never crosses zero (for a system: the Jacobian is singular). Try guesses \
+                 farther apart, or a bracket."
             }
             Status::Diverging => {
                 "Not converged: the estimates run away while the residual does not shrink. \

@@ -145,6 +145,21 @@ proptest! {
     }
 
     #[test]
+    fn repeated_subexpressions_computed_once_are_bit_identical_to_meval(
+        a in expression(), b in expression(), x in value(), y in value(), z in value()
+    ) {
+        // Shared subexpressions are computed once and kept (common subexpressions).
+        let text = format!("({a})*({a}) + sin({a}) - ({b})^({a}) + hypot({b}, {b})");
+        let e = Expression::parse(&text).unwrap();
+        let program = e.compile(&["x", "y", "z"]).unwrap();
+        let vars = vec![("x", x), ("y", y), ("z", z)];
+        let ctx = reference_context();
+        let reference = e.meval().eval_with_context((&vars, &ctx)).unwrap();
+        let got = program.eval(&[x, y, z]);
+        prop_assert!(same(got, reference), "{text}: compiled {got:e}, meval {reference:e}");
+    }
+
+    #[test]
     fn folded_residuals_are_bit_identical_to_meval(
         d in expression(), lhs in expression(), rhs in expression(),
         x in value(), y in value(), z in value()

@@ -21,6 +21,7 @@ use super::functions::{self, Implementation};
 use super::parse::Expression;
 use crate::error::InputError;
 use meval::tokenizer::{Operation, Token};
+use std::collections::HashMap;
 
 /// What a name resolves to at compile time.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -73,6 +74,23 @@ enum Op {
     Call2(fn(f64, f64) -> f64),
     Call3(fn(f64, f64, f64) -> f64),
     CallN(fn(&[f64]) -> f64, u32),
+    /// Keep the top in stack cell i (a cell past the operand stack) for a later `Fetch`.
+    Store(u32),
+    /// Push the value kept in stack cell i.
+    Fetch(u32),
+}
+
+impl Op {
+    /// How many operands the operation takes from the stack (the top included).
+    fn operands(self) -> usize {
+        match self {
+            Op::Load(_) | Op::Const(_) | Op::Fetch(_) => 0,
+            Op::Add | Op::Sub | Op::Mul | Op::Div | Op::Rem | Op::Pow | Op::Call2(_) => 2,
+            Op::Call3(_) => 3,
+            Op::CallN(_, n) => n as usize,
+            _ => 1,
+        }
+    }
 }
 
 /// Why compiling failed.
@@ -117,6 +135,8 @@ pub struct Program {
     ops: Vec<Op>,
     /// The most operands alive at once.
     depth: usize,
+    /// Values kept for re-use (common subexpressions).
+    kept: usize,
     slots: usize,
 }
 
@@ -167,16 +187,21 @@ impl Program {
         if b.starts.len() != 1 {
             return Err(CompileError::Malformed("operands left over"));
         }
+        let (ops, depth, kept) = match share_common(b.ops) {
+            Ok(shared) => shared,
+            Err(ops) => (ops, b.max_depth, 0),
+        };
         Ok(Program {
-            ops: b.ops,
-            depth: b.max_depth,
+            ops,
+            depth,
+            kept,
             slots: b.slots,
         })
     }
 
-    /// The stack length [`Program::eval_with`] needs.
+    /// The stack length [`Program::eval_with`] needs: the operands, then the kept values.
     pub fn stack_size(&self) -> usize {
-        self.depth + 1
+        self.depth + 1 + self.kept
     }
 
     /// The number of slots read (highest slot + 1).
@@ -294,6 +319,12 @@ impl Program {
                     stack[sp] = acc;
                     acc = f(&stack[sp + 1 - n..=sp]);
                     sp -= n - 1;
+                }
+                Op::Store(i) => stack[i as usize] = acc,
+                Op::Fetch(i) => {
+                    stack[sp] = acc;
+                    sp += 1;
+                    acc = stack[i as usize];
                 }
             }
         }
@@ -465,4 +496,89 @@ impl Builder {
         self.starts.truncate(k - n + 1);
         Ok(())
     }
+}
+
+/// Computes a repeated subexpression once: `sqrt(f)` twice becomes one square root,
+/// kept in a stack cell and fetched the second time. Every function is pure, so the
+/// value fetched has the same bits as the one recomputed. Returns the new operations,
+/// operand depth and number of kept values, or the operations unchanged (`Err`) when
+/// nothing repeats.
+fn share_common(ops: Vec<Op>) -> Result<(Vec<Op>, usize, usize), Vec<Op>> {
+    // The expression as a graph: identical subtrees become one node.
+    let mut nodes: Vec<(Op, Vec<usize>)> = Vec::with_capacity(ops.len());
+    let mut index: HashMap<String, usize> = HashMap::new();
+    let mut stack: Vec<usize> = Vec::new();
+    for &op in &ops {
+        let k = op.operands();
+        if stack.len() < k {
+            return Err(ops);
+        }
+        let children = stack.split_off(stack.len() - k);
+        let key = format!("{op:?}{children:?}");
+        let id = *index.entry(key).or_insert_with(|| {
+            nodes.push((op, children));
+            nodes.len() - 1
+        });
+        stack.push(id);
+    }
+    let [root] = stack[..] else {
+        return Err(ops);
+    };
+    let mut uses = vec![0usize; nodes.len()];
+    uses[root] += 1;
+    for (_, children) in &nodes {
+        for &c in children {
+            uses[c] += 1;
+        }
+    }
+    if !nodes
+        .iter()
+        .zip(&uses)
+        .any(|((_, children), &u)| u > 1 && !children.is_empty())
+    {
+        return Err(ops);
+    }
+    // Emit in the original order (post-order, left first), keeping shared values.
+    let mut out: Vec<Op> = Vec::with_capacity(ops.len());
+    let mut kept_in: Vec<Option<u32>> = vec![None; nodes.len()];
+    let mut kept = 0u32;
+    let mut work: Vec<(usize, bool)> = vec![(root, false)];
+    while let Some((n, expanded)) = work.pop() {
+        let (op, children) = &nodes[n];
+        if expanded {
+            out.push(*op);
+            if uses[n] > 1 {
+                kept_in[n] = Some(kept);
+                out.push(Op::Store(kept));
+                kept += 1;
+            }
+        } else if let Some(t) = kept_in[n] {
+            out.push(Op::Fetch(t));
+        } else if children.is_empty() {
+            out.push(*op);
+        } else {
+            work.push((n, true));
+            for &c in children.iter().rev() {
+                work.push((c, false));
+            }
+        }
+    }
+    // Operand depth of the new sequence, then kept cells placed after it.
+    let (mut depth, mut max_depth) = (0usize, 0usize);
+    for op in &out {
+        match op {
+            Op::Store(_) => {}
+            op => {
+                depth = depth + 1 - op.operands();
+                max_depth = max_depth.max(depth);
+            }
+        }
+    }
+    let base = max_depth + 1;
+    for op in out.iter_mut() {
+        if let Op::Store(t) | Op::Fetch(t) = op {
+            *t += base as u32;
+        }
+    }
+    Ok((out, max_depth, kept as usize))
 }

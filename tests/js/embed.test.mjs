@@ -69,6 +69,16 @@ test("a two-branch template returns both roots: area ratio to Mach number", () =
   }
 });
 
+test("a template with a list input: rate of return of cash flows", () => {
+  const flows = [-1000, 300, 400, 500, 200];
+  const r = tacit.solveTemplate({ id: "finance.irr", values: { c: flows }, unknown: "r" });
+  assert.equal(r.converged, true);
+  // The internal rate of return is the rate at which the net present value is zero
+  // (its definition; common practice, no source), evaluated here in JS.
+  const npv = flows.reduce((sum, c, k) => sum + c / (1 + r.value) ** k, 0);
+  assert.ok(Math.abs(npv) < 1e-6, `NPV at ${r.value} is ${npv}`);
+});
+
 test("the catalogue has full metadata, enough to build a form", () => {
   const list = tacit.catalogue();
   assert.ok(list.length > 0);
