@@ -34,18 +34,25 @@ const raw = bytes.length;
 const gz = gzipSync(bytes, { level: 9 }).length;
 console.log(`wasm size: ${raw} bytes (${kb(raw)}) raw, ${gz} bytes (${kb(gz)}) gzipped; goal <= 250 KB raw (${raw <= 250_000 ? "met" : "not met"})`);
 
+// The best of ROUNDS timed rounds (each `seconds / ROUNDS` long), so that other work on
+// a shared machine lowers the figure less; the native example does the same.
+const ROUNDS = 3;
 function rate(run, budget = seconds) {
   // Warm up long enough for V8 to move the hot wasm functions to its optimising tier.
   const warm = performance.now() + 300;
   while (performance.now() < warm) run();
-  let n = 0;
-  const start = performance.now();
-  const end = start + budget * 1000;
-  while (performance.now() < end) {
-    for (let i = 0; i < 50; i++) run();
-    n += 50;
+  let best = 0;
+  for (let round = 0; round < ROUNDS; round++) {
+    let n = 0;
+    const start = performance.now();
+    const end = start + (budget * 1000) / ROUNDS;
+    while (performance.now() < end) {
+      for (let i = 0; i < 50; i++) run();
+      n += 50;
+    }
+    best = Math.max(best, n / ((performance.now() - start) / 1000));
   }
-  return n / ((performance.now() - start) / 1000);
+  return best;
 }
 
 function perCallNs(run, calls = 2_000_000) {
@@ -99,7 +106,7 @@ if (process.env.TACIT_BENCH_NO_NATIVE !== "1") {
   }
 }
 
-console.log("\nsolves per second (same requests; the JSON text is made once for the raw calls):");
+console.log(`\nsolves per second, best of ${ROUNDS} rounds (same requests; the JSON text is made once for the raw calls):`);
 console.log("  workload                         native     wasm raw   wasm/native   wasm via wrapper (JSON.stringify/parse)");
 const row = (name, label) => {
   const n = native[name];

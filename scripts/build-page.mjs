@@ -280,10 +280,11 @@ const dataJs =
 const pageScript = guardScript(pageJs);
 const dataScript = guardScript(dataJs);
 
+const styleText = `\n${css}`;
 const csp = [
   "default-src 'none'",
   `script-src 'sha256-${sha256(dataScript)}' 'sha256-${sha256(pageScript)}' 'wasm-unsafe-eval'`,
-  "style-src 'unsafe-inline'",
+  `style-src 'sha256-${sha256(styleText)}'`,
   "img-src data: blob:",
   "connect-src 'none'",
   "worker-src blob:",
@@ -300,7 +301,7 @@ const marker = (name) => {
 };
 let html = template;
 html = html.replace(marker('csp'), () => `<meta http-equiv="Content-Security-Policy" content="${csp}">`);
-html = html.replace(marker('style'), () => `<style>\n${css}</style>`);
+html = html.replace(marker('style'), () => `<style>${styleText}</style>`);
 html = html.replace(
   marker('scripts'),
   () =>

@@ -1,6 +1,9 @@
 //! The equation language: precedence, numbers, statements, names, and errors that point
 //! at the problem. Expected values of plain arithmetic are common mathematical
 //! convention (no source); positions are character offsets into the text.
+//!
+//! Precedence, tightest first: ( ) and calls; ^ (right-assoc); unary - +; * / % (left);
+//! + - (left).
 
 use tacit::equations::{caret, EquationSet, Expression, MAX_DEPTH, MAX_TEXT_BYTES};
 use tacit::InputError;

@@ -572,8 +572,8 @@ function templateAsEquation(built) {
 function sampleCurve(built, history, conv) {
   const xs = history.map((r) => r.x).filter(Number.isFinite);
   if (xs.length < 2) return null;
-  let lo = Math.min(...xs);
-  let hi = Math.max(...xs);
+  let lo = xs.reduce((a, b) => Math.min(a, b));
+  let hi = xs.reduce((a, b) => Math.max(a, b));
   if (hi === lo) return null;
   const pad = (hi - lo) * 0.05;
   lo -= pad;
@@ -927,8 +927,15 @@ function showSweep(sw) {
   const ok = [];
   const bad = [];
   result.input.forEach((x, i) => (result.converged[i] ? ok : bad).push([x, result.root[i]]));
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const x of result.input) {
+    if (x < lo) lo = x;
+    if (x > hi) hi = x;
+  }
   box.append(
     plot({
+      logX: lo > 0 && hi / lo >= 100,
       title: `${unknown} against ${input}`,
       xLabel: `${input}${inputUnit ? ` (${inputUnit})` : ''}`,
       yLabel: `${unknown}${unit ? ` (${unit})` : ''}`,

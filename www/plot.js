@@ -56,6 +56,15 @@ function extent(values) {
  */
 export function plot(spec) {
   const ty = spec.logY ? (y) => (y > 0 ? Math.log10(y) : NaN) : (y) => y;
+  if (spec.logX) {
+    // Plot log10(x) on a linear axis, labelled in decades.
+    const lx = (x) => (x > 0 ? Math.log10(x) : NaN);
+    const layers = spec.layers.map((l) => ({
+      ...l,
+      data: l.data.map((d) => (l.kind === 'segments' ? [lx(d[0]), d[1], lx(d[2]), d[3]] : [lx(d[0]), d[1]])),
+    }));
+    return plot({ ...spec, logX: false, decadesX: true, layers, xRange: spec.xRange?.map(lx) });
+  }
   const xs = [];
   const ys = [];
   for (const layer of spec.layers) {
@@ -85,11 +94,16 @@ export function plot(spec) {
   svg.append(s('title', {}, spec.title));
   const frame = s('g', { class: 'axes' });
   frame.append(s('rect', { x: PAD.l, y: PAD.t, width: W - PAD.l - PAD.r, height: H - PAD.t - PAD.b, class: 'frame' }));
-  const xt = spec.integerX ? ticks(x0, x1, 6).filter((v) => Number.isInteger(v)) : ticks(x0, x1, 6);
+  const xt = spec.integerX || spec.decadesX ? ticks(x0, x1, 6).filter((v) => Number.isInteger(v)) : ticks(x0, x1, 6);
   for (const t of xt) {
     const x = px(t);
     frame.append(s('line', { x1: x, x2: x, y1: PAD.t, y2: H - PAD.b, class: 'grid' }));
-    frame.append(s('text', { x, y: H - PAD.b + 16, class: 'tick', 'text-anchor': 'middle' }, label(t)));
+    const txt = s('text', { x, y: H - PAD.b + 16, class: 'tick', 'text-anchor': 'middle' });
+    if (spec.decadesX) {
+      txt.append(document.createTextNode('10'));
+      txt.append(s('tspan', { dy: -6, class: 'sup' }, String(t).replace('-', '\u2212')));
+    } else txt.textContent = label(t);
+    frame.append(txt);
   }
   const yt = spec.logY ? ticks(y0, y1, Math.min(6, Math.max(1, y1 - y0))).filter((v) => Number.isInteger(v)) : ticks(y0, y1, 5);
   for (const t of yt) {

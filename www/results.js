@@ -89,9 +89,18 @@ export function showHistory(rows, curve, xLabel) {
     return;
   }
   card.hidden = false;
+  const rowsCount = rows.length;
   byId('history-x-head').textContent = xLabel;
   const tb = clear(byId('history-table').tBodies[0]);
-  for (const r of rows) {
+  // A very long history (a large budget) is shown by its two ends, and plotted thinned.
+  const LIMIT = 1000;
+  const shown = rows.length > 2 * LIMIT ? [...rows.slice(0, LIMIT), null, ...rows.slice(-LIMIT)] : rows;
+  if (rows.length > 2 * LIMIT) rows = rows.filter((_, i) => i % Math.ceil(rows.length / 2000) === 0 || i === rows.length - 1);
+  for (const r of shown) {
+    if (r === null) {
+      tb.append(h('tr', null, h('td', { colspan: '5', class: 'kind' }, `… rows ${LIMIT + 1} to ${rowsCount - LIMIT} are not shown …`)));
+      continue;
+    }
     tb.append(
       h('tr', null,
         h('td', null, String(r.k)),
@@ -105,7 +114,7 @@ export function showHistory(rows, curve, xLabel) {
   // |residual| against evaluation number, log scale. Exact zeros cannot be drawn on a log
   // axis; they are said in words.
   const pos = rows.filter((r) => Math.abs(r.fx) > 0 && Number.isFinite(r.fx));
-  const zeros = rows.filter((r) => r.fx === 0).map((r) => r.k);
+  const zeros = rows.filter((r) => r.fx === 0).map((r) => r.k).slice(0, 20);
   const resBox = clear(byId('plot-residual'));
   resBox.append(
     plot({
@@ -113,7 +122,7 @@ export function showHistory(rows, curve, xLabel) {
       xLabel: 'evaluation k',
       yLabel: '|f(x)|',
       logY: true,
-      xRange: [0.5, rows.length + 0.5],
+      xRange: [0.5, rowsCount + 0.5],
       integerX: true,
       layers: [{ kind: 'line', cls: 'trace', data: pos.map((r) => [r.k, Math.abs(r.fx)]) }, { kind: 'points', cls: 'trace', data: pos.map((r) => [r.k, Math.abs(r.fx)]) }],
     }),
@@ -123,13 +132,19 @@ export function showHistory(rows, curve, xLabel) {
   const fnBox = clear(byId('plot-function'));
   const pts = rows.filter((r) => Number.isFinite(r.x) && Number.isFinite(r.fx));
   const secants = [];
-  for (let i = 2; i < rows.length; i++) {
+  for (let i = 2; i < rows.length && rows.length === rowsCount; i++) {
     if (rows[i].kind !== 'secant') continue;
     const a = rows[i - 2];
     const b = rows[i - 1];
     if (![a.x, a.fx, b.x, b.fx, rows[i].x].every(Number.isFinite)) continue;
-    // The secant through the two previous points, drawn to where it crosses zero.
-    secants.push([a.x, a.fx, rows[i].x, 0]);
+    // The secant through the two previous points, drawn across both and to where it
+    // crosses zero (the next iterate).
+    if (a.x === b.x) continue;
+    const slope = (b.fx - a.fx) / (b.x - a.x);
+    const xs = [a.x, b.x, rows[i].x];
+    const x0 = Math.min(...xs);
+    const x1 = Math.max(...xs);
+    secants.push([x0, a.fx + slope * (x0 - a.x), x1, a.fx + slope * (x1 - a.x)]);
   }
   const layers = [];
   if (curve && curve.length > 1) layers.push({ kind: 'line', cls: 'curve', data: curve });
@@ -154,6 +169,13 @@ export function showHistory(rows, curve, xLabel) {
       ...(secants.length ? [{ cls: 'secants', text: 'secant lines' }] : []),
     ]),
   );
+}
+
+// Set through the CSSOM, which the page's style policy allows (style attributes it does not).
+function bar(fraction) {
+  const el = h('div', { class: 'sens-bar' });
+  el.style.width = `${(fraction * 100).toFixed(1)}%`;
+  return el;
 }
 
 /** sens: [{unknown, input, derivative, relative}]; meaning(symbol) gives a description. */
@@ -181,7 +203,7 @@ export function showSensitivities(sens, meaning) {
         h('td', null, symbolMathML(s.input)),
         h('td', null, meaning(s.input) || ''),
         h('td', { class: 'mono', title: full(s.relative) }, `${s.relative >= 0 ? '+' : ''}${fmt(s.relative, 4)} %`),
-        h('td', { class: 'bar-cell' }, h('div', { class: 'sens-bar', style: `width:${((Math.abs(s.relative) / maxAbs) * 100).toFixed(1)}%` })),
+        h('td', { class: 'bar-cell' }, bar(Math.abs(s.relative) / maxAbs)),
       ),
     );
   }

@@ -12,6 +12,10 @@
 //!    `meval::Expr::from_str` (meval's tokenizer and shunting-yard), whose RPN the
 //!    compiler in [`super::program`] reads.
 //!
+//! **Precedence**, tightest first: parentheses and calls; `^` (right-associative);
+//! unary `-` and `+`; `*`, `/`, `%` (left); `+`, `-` (left). So `-2^2` is -4 and
+//! `2^3^2` is 512, as in common mathematical convention; this is meval's own order.
+//!
 //! By the time meval sees a text it is one that meval reads without panicking: no
 //! whitespace, numbers in meval's own form, balanced parentheses, no empty calls.
 

@@ -13,7 +13,10 @@
 //!   multiply, `1/sqrt(f)` a square root then `ConstDiv(1)`; the same `left ⊕ right`
 //!   is computed, operands in the same order;
 //! - *folding*: an operation whose operands are all fixed values is computed once at
-//!   compile time with the same Rust operation, and its result stored.
+//!   compile time with the same Rust operation, and its result stored;
+//! - *sharing*: a subexpression that occurs more than once (`sqrt(f)` twice in the
+//!   Colebrook residual) is computed once and kept; every function is pure, so the
+//!   kept value has the bits a recomputation would have.
 //!
 //! Unary plus is dropped (meval pushes the value back unchanged).
 

@@ -3,7 +3,8 @@
 // with the live syntax check; all roots in a range.
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
-import { launch, openPage, checkClean, pickTemplate, setValue, chooseUnknown, solveAndRead, historyRows, close, shot } from './lib.mjs';
+import { join } from 'node:path';
+import { launch, openPage, checkClean, pickTemplate, setValue, chooseUnknown, solveAndRead, historyRows, close, shot, ARTIFACTS } from './lib.mjs';
 
 // fluids.friction.Colebrook(Re=1e5, eD=1e-4): the value asserted in the test suite of the
 // `fluids` library (PyPI), which evaluates Colebrook–White in closed form with Lambert W.
@@ -62,6 +63,20 @@ test('the same template solved for the Reynolds number gives back Re = 1e5', asy
   const d = await solveAndRead(page, 'D');
   close(d, 1, 1e-7, 'diameter in m');
   assert.equal(await page.textContent('#result .answer .unit'), 'm');
+  checkClean(log);
+});
+
+test('the classic secant method: same root, and its secant lines are drawn', async () => {
+  const { page, log } = await openPage(browser);
+  await colebrook(page);
+  await page.click('#advanced summary');
+  await page.selectOption('#method', 'secant');
+  const f = await solveAndRead(page, 'f');
+  close(f, COLEBROOK_F, 1e-10, 'friction factor by the classic secant method');
+  const rows = await historyRows(page);
+  assert.ok(rows.some((r) => r.kind === 'secant'), 'secant steps in the history');
+  assert.equal(await page.locator('#plot-function .secants line').count(), rows.filter((r, i) => i >= 2 && r.kind === 'secant').length);
+  await page.locator('#history .plots').screenshot({ path: join(ARTIFACTS, 'colebrook-secant-plots.png') });
   checkClean(log);
 });
 

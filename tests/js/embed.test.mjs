@@ -75,8 +75,11 @@ test("a template with a list input: rate of return of cash flows", () => {
   assert.equal(r.converged, true);
   // The internal rate of return is the rate at which the net present value is zero
   // (its definition; common practice, no source), evaluated here in JS.
-  const npv = flows.reduce((sum, c, k) => sum + c / (1 + r.value) ** k, 0);
-  assert.ok(Math.abs(npv) < 1e-6, `NPV at ${r.value} is ${npv}`);
+  // `value` is in the result unit; `unknowns` holds the SI value (a plain fraction).
+  const rate = r.unknowns.r;
+  close(tacit.convertUnit(rate, "1", r.unit), r.value, 1e-12, "rate in its unit");
+  const npv = flows.reduce((sum, c, k) => sum + c / (1 + rate) ** k, 0);
+  assert.ok(Math.abs(npv) < 1e-6, `NPV at ${rate} is ${npv}`);
 });
 
 test("the catalogue has full metadata, enough to build a form", () => {

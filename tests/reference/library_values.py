@@ -129,3 +129,46 @@ I_ = A_ * r_ * r_
 mid = float(sol.rhs.subs(x, Lsym / 2).subs({k: math.sqrt(P_ / (E_ * I_)), ecc: e_, Lsym: Le}))
 smax = P_ / A_ + P_ * (mid + e_) * c_ / I_
 show("secant column smax (Pa)", v("sympy"), "dsolve of y'' + k^2 (y + e) = 0", smax)
+
+# gas.area-mach and gas.fanno: the subsonic roots, by scipy brentq on the relations of
+# NACA Report 1135 eq. 80 and the Fanno parameter (Anderson, Modern Compressible Flow, eq. 3.107)
+gam = 1.4
+area_ratio = lambda M: 1 / M * ((2 / (gam + 1)) * (1 + (gam - 1) / 2 * M * M)) ** ((gam + 1) / (2 * (gam - 1)))
+show("area-mach subsonic M at A/A*=1.6875", v("scipy"), "optimize.brentq on NACA 1135 eq. 80", brentq(lambda M: area_ratio(M) - 1.6875, 0.01, 0.99, xtol=1e-16, rtol=1e-15))
+fanno = lambda M: (1 - M * M) / (gam * M * M) + (gam + 1) / (2 * gam) * math.log((gam + 1) * M * M / (2 + (gam - 1) * M * M))
+show("fanno subsonic M at fL*/D=0.3050", v("scipy"), "optimize.brentq on the Fanno parameter", brentq(lambda M: fanno(M) - 0.3050, 0.01, 0.99, xtol=1e-16, rtol=1e-15))
+
+# pipes.pump-operating-point: the system head at the operating flow, from fluids Colebrook
+H0, Qr, Hr, Hs, L, D, eps, nu, K = 62, 0.040, 48, 30, 1500, 0.2, 0.1e-3, 1.004e-6, 12
+q = brentq(sys_gap, 0.001, 0.08, xtol=1e-15)
+vel = 4 * q / (math.pi * D * D)
+show("pump system head at operating Q", v("fluids"), "Hs + (Colebrook*L/D + K) V^2/2g", Hs + (Colebrook(vel * D / nu, eps / D) * L / D + K) * vel * vel / (2 * G))
+
+# channels.critical-depth-trapezoidal: the depth of least specific energy E = y + Q^2/(2 g A^2)
+# (the definition of critical depth), by scipy minimize_scalar, at the scenario values
+from scipy.optimize import minimize_scalar  # noqa: E402
+
+Qc, bc, zc = 3.2, 1.5, 2.0
+spec_energy = lambda y: y + Qc * Qc / (2 * G * ((bc + zc * y) * y) ** 2)
+yc = minimize_scalar(spec_energy, bounds=(0.05, 3.0), method="bounded", options={"xatol": 1e-12}).x
+show("critical depth by least specific energy", v("scipy"), "optimize.minimize_scalar(bounded) on E(y)", yc)
+
+# coastal.wave-dispersion: T = 10 s, h = 10 m, scipy brentq on omega^2 = g k tanh(k h)
+disp = lambda Lw: (2 * math.pi / 10.0) ** 2 - G * (2 * math.pi / Lw) * math.tanh(2 * math.pi * 10.0 / Lw)
+show("wave length T=10 h=10", v("scipy"), "optimize.brentq on the dispersion relation", brentq(disp, 1.0, 1000.0, xtol=1e-14, rtol=1e-15))
+
+# thermal.plane-wall-transient: the full series (Incropera 6th ed. eq. 5.39a) with 60 terms,
+# eigenvalues of zeta tan zeta = Bi by scipy brentq, against the template's one-term form
+def wall_series(bi, fo, xs, terms=60):
+    total = 0.0
+    for n in range(terms):
+        lo, hi = n * math.pi + 1e-12, n * math.pi + math.pi / 2 - 1e-12
+        zeta = brentq(lambda z: z * math.sin(z) - bi * math.cos(z), lo, hi, xtol=1e-15, rtol=1e-15)
+        cn = 4 * math.sin(zeta) / (2 * zeta + math.sin(2 * zeta))
+        total += cn * math.exp(-zeta * zeta * fo) * math.cos(zeta * xs)
+    return total
+
+
+bi = 15 * 0.1 / 1.4
+show("plane wall T scenario (degC)", v("scipy"), "Incropera eq. 5.39a series, 60 terms", 10 + 45 * wall_series(bi, 0.7e-6 * 36000 / 0.01, 0.0))
+show("plane wall theta Bi=1 Fo=0.3 x*=0.5", v("scipy"), "Incropera eq. 5.39a series, 60 terms", wall_series(1.0, 0.3, 0.5))
