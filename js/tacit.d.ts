@@ -426,7 +426,7 @@ export type CheckResult =
     };
 
 /** A value to initialise with: the .wasm bytes, a compiled module, or where to fetch it from. */
-export type WasmSource = BufferSource | WebAssembly.Module | URL | string;
+export type WasmSource = BufferSource | WebAssembly.Module | URL | string | Response;
 
 /** Loads the WebAssembly module. Call once before anything else; later calls do nothing. */
 export function init(wasm?: WasmSource): Promise<void>;

@@ -189,7 +189,9 @@ function encode(value, what) {
   }
 }
 
-const decode = (text) => JSON.parse(text, reviver);
+// The reviver is only needed when a non-finite number was written as a string.
+const decode = (text) =>
+  text.includes('"NaN"') || text.includes('Infinity"') ? JSON.parse(text, reviver) : JSON.parse(text);
 
 function requireFunction(f, name) {
   if (typeof f !== "function") {
@@ -354,7 +356,7 @@ export class Stepper {
   /** Records f at the x from next(). */
   tell(fx) {
     if (typeof fx !== "number") {
-      throw new TacitError("bad-value", `tell() takes the number f(x), got ${describe(fx)}`);
+      throw new TacitError("bad-type", `tell() takes the number f(x), got ${describe(fx)}`);
     }
     const h = this.#handle();
     guarded(() => h.tell(fx));

@@ -20,6 +20,14 @@ VERSION=$(cargo metadata --format-version 1 --no-deps | node -e 'let s="";proces
 WASM="$TARGET_DIR/wasm32-unknown-unknown/$PROFILE/tacit.wasm"
 OUT=dist/pkg
 
+# The CLI must equal the wasm-bindgen crate in Cargo.lock, or it fails with a schema error.
+WB_LOCK=$(awk '/^name = "wasm-bindgen"$/ {getline; gsub(/version = |"/, ""); print; exit}' Cargo.lock)
+WB_CLI=$(wasm-bindgen --version | awk '{print $2}')
+if [ "$WB_LOCK" != "$WB_CLI" ]; then
+  echo "build-pkg: wasm-bindgen CLI $WB_CLI differs from the crate $WB_LOCK in Cargo.lock; run scripts/setup.sh" >&2
+  exit 1
+fi
+
 say "cargo build --profile $PROFILE --target wasm32-unknown-unknown"
 cargo build --lib --profile "$PROFILE" --target wasm32-unknown-unknown
 
@@ -39,7 +47,7 @@ else
   say "skipping wasm-opt"
 fi
 
-cp js/tacit.js js/tacit.d.ts "$OUT/"
+cp js/tacit.d.ts "$OUT/"
 sed "s/__TACIT_VERSION__/$VERSION/" js/tacit.js >"$OUT/tacit.js"
 
 cat >"$OUT/package.json" <<EOF

@@ -21,11 +21,8 @@ cargo test --doc
 stage "wasm package"
 bash scripts/build-pkg.sh
 
-stage "wasm tests in Node and headless Chromium"
-bash scripts/test-wasm.sh
-
-stage "the package used from Node"
-node --test tests/js/
+stage "wasm tests in Node and headless Chromium, then the package used from Node"
+TACIT_PKG_BUILT=1 bash scripts/test-wasm.sh
 
 stage "the offline page, end to end in headless Chromium"
 node scripts/build-page.mjs

@@ -317,9 +317,3 @@ pub fn convert_unit(value: JsValue, from: JsValue, to: JsValue) -> Result<f64, J
 pub fn units_catalogue() -> String {
     api::units_catalogue()
 }
-
-#[wasm_bindgen(js_name = panicProbe)]
-pub fn panic_probe(n: usize) -> usize {
-    let v: Vec<usize> = Vec::new();
-    v[n]
-}

@@ -528,24 +528,44 @@ pub fn si_unit(dimension: &str) -> Option<&'static str> {
 }
 
 /// Spaces dropped and Unicode powers and dots folded, so "m³/s" and "m^3 / s" match.
-fn normalize(text: &str) -> String {
-    let mut out = String::with_capacity(text.len());
-    for c in text.chars() {
-        match c {
-            ' ' | '\t' => {}
-            '²' => out.push_str("^2"),
-            '³' => out.push_str("^3"),
-            '⁴' => out.push_str("^4"),
-            '·' | '⋅' => out.push('*'),
-            'μ' => out.push('µ'),
-            _ => out.push(c),
+/// An iterator, so matching against the table allocates nothing.
+fn normalized(text: &str) -> impl Iterator<Item = char> + '_ {
+    text.chars().flat_map(|c| {
+        let folded: &[char] = match c {
+            ' ' | '\t' => &[],
+            '²' => &['^', '2'],
+            '³' => &['^', '3'],
+            '⁴' => &['^', '4'],
+            '·' | '⋅' => &['*'],
+            'μ' => &['µ'],
+            _ => return Folded::One(Some(c)),
+        };
+        Folded::Many(folded.iter().copied())
+    })
+}
+
+enum Folded {
+    One(Option<char>),
+    Many(std::iter::Copied<std::slice::Iter<'static, char>>),
+}
+
+impl Iterator for Folded {
+    type Item = char;
+    fn next(&mut self) -> Option<char> {
+        match self {
+            Folded::One(c) => c.take(),
+            Folded::Many(it) => it.next(),
         }
     }
-    out
+}
+
+fn normalize(text: &str) -> String {
+    normalized(text).collect()
 }
 
 fn matches(unit: &Unit, wanted: &str) -> bool {
-    normalize(unit.symbol) == wanted || unit.aliases.iter().any(|a| normalize(a) == wanted)
+    normalized(unit.symbol).eq(wanted.chars())
+        || unit.aliases.iter().any(|a| normalized(a).eq(wanted.chars()))
 }
 
 /// Every row whose symbol or alias is `symbol` (one per dimension it belongs to).

@@ -490,3 +490,39 @@ mod properties {
         }
     }
 }
+
+#[test]
+fn interpolating_methods_need_far_fewer_evaluations_than_bisection() {
+    // Superlinear interpolation needs far fewer evaluations than bisection's one bit per
+    // step (common practice, no source). A guard against a hybrid or Illinois that has
+    // quietly fallen back to halving: the figures themselves are printed by
+    // `examples/bench_methods.rs`, not asserted here.
+    let tol = tight();
+    let total = |method: MethodKind| -> usize {
+        aps748::APS_CASES
+            .iter()
+            .map(|c| {
+                counted(
+                    method,
+                    Start::Bracket(c.a, c.b),
+                    tol,
+                    Bounds::UNBOUNDED,
+                    |x| c.f(x),
+                )
+                .0
+                .evaluations
+            })
+            .sum()
+    };
+    let bisection = total(MethodKind::Bisection);
+    let hybrid = total(MethodKind::Hybrid);
+    let illinois = total(MethodKind::Illinois);
+    assert!(
+        4 * hybrid < bisection,
+        "hybrid {hybrid} against bisection {bisection}"
+    );
+    assert!(
+        2 * illinois < bisection,
+        "Illinois {illinois} against bisection {bisection}"
+    );
+}

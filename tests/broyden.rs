@@ -25,6 +25,7 @@ fn check(source: &str, f: System, x0: &[f64], expected: &[f64], within: f64) {
         calls.get(),
         "{source}: exact evaluation count"
     );
+    assert_eq!(s.x.len(), expected.len(), "{source}: number of unknowns");
     for (i, (&got, &want)) in s.x.iter().zip(expected).enumerate() {
         assert!(
             (got - want).abs() <= within,

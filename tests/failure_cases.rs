@@ -244,6 +244,25 @@ fn touching_root_is_accepted_only_when_f_is_tiny() {
     check_never_converged("(x-1)^2 + 1e-6", Start::Guesses(2.0, 3.0), |x| {
         (x - 1.0) * (x - 1.0) + 1e-6
     });
+    // With a looser step tolerance (x_rel = 1e-4) the secant settles near 1 in both
+    // cases, and only the size of |f| there tells them apart: (x-1)^2 settles where
+    // |f| is about 4e-11 of the largest |f| seen (accepted), (x-1)^2 + 1e-8 where it
+    // is about 3e-9 (rejected as stagnated). Common practice, no source.
+    let loose = Options {
+        tol: tacit::Tolerances {
+            x_rel: 1e-4,
+            ..tacit::Tolerances::default()
+        },
+        ..options(MethodKind::Auto)
+    };
+    let s = solve(Start::Guesses(2.0, 3.0), &loose, |x| (x - 1.0) * (x - 1.0)).unwrap();
+    assert!(s.converged && (s.root - 1.0).abs() < 1e-4, "{s:?}");
+    let s = solve(Start::Guesses(2.0, 3.0), &loose, |x| {
+        (x - 1.0) * (x - 1.0) + 1e-8
+    })
+    .unwrap();
+    assert!(!s.converged, "{s:?}");
+    assert_eq!(s.status, Status::Stagnated, "{s:?}");
 }
 
 #[test]

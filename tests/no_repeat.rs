@@ -48,11 +48,15 @@ fn check_scalar(method: MethodKind, start: Start, bounds: Bounds, name: &str, f:
         bounds,
         ..Options::default()
     };
-    let Ok(s) = solve(start, &options, |x| {
+    let s = match solve(start, &options, |x| {
         seen.borrow_mut().push(x);
         f(x)
-    }) else {
-        return;
+    }) {
+        Ok(s) => s,
+        Err(e) => panic!(
+            "{method:?} {name} {start:?}: a valid set-up was refused: {}",
+            e.message
+        ),
     };
     let xs = seen.into_inner();
     assert_eq!(

@@ -136,6 +136,16 @@ fn positive_minimum_is_not_a_root() {
     assert!(r.roots.is_empty(), "{:?}", r.roots);
     let r = scan(-3.0, 3.0, 400, |x| x.powi(4) - x * x + 1.0);
     assert!(r.roots.is_empty(), "{:?}", r.roots);
+    // A deep but positive dip: (x-1)² + 1e-9 on [0, 3.1] with 7 samples (none at 1).
+    // The dip is refined, and its minimum 1e-9 is above 1e-10 of the largest sample
+    // (4.41), the documented threshold for a touching root: no root (common practice,
+    // no source).
+    let r = scan(0.0, 3.1, 7, |x| (x - 1.0) * (x - 1.0) + 1e-9);
+    assert!(r.roots.is_empty(), "{:?}", r.roots);
+    assert!(r.evaluations > 7, "the dip was refined: {}", r.evaluations);
+    // The same dip 100 times shallower relative to the samples is a touching root.
+    let r = scan(0.0, 3.1, 7, |x| (x - 1.0) * (x - 1.0) + 1e-12);
+    check("(x-1)^2 + 1e-12", &r, &[1.0], &[RootKind::Touching], 1e-5);
 }
 
 #[test]

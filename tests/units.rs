@@ -524,7 +524,9 @@ fn temperatures_with_offsets() {
 
 #[test]
 fn conversions_between_non_si_units() {
-    // 1 ksi = 1000 psi; 1 ft^3/s = 448.83117 gal/min (7.48052 gal/ft^3 x 60).
+    // 1 ksi = 1000 psi and 1 mi = 5280 ft by definition (NIST SP 811 B.8, kip and mile);
+    // 1 ft^3/s = 448.83117 gal/min, since 1 ft^3 = 1728/231 = 7.48052 US gal (NIST SP 811
+    // B.8 defines the gallon as 231 in^3) and a minute is 60 s.
     assert!((units::convert(1.0, "ksi", "psi").unwrap() - 1000.0).abs() < 1e-9);
     assert!((units::convert(1.0, "cfs", "gpm").unwrap() - 448.831_168_8).abs() < 1e-6);
     assert!((units::convert(1.0, "mi", "ft").unwrap() - 5280.0).abs() < 1e-9);

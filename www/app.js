@@ -234,7 +234,7 @@ function renderStart() {
     const g = v?.guesses;
     hint = Array.isArray(g) && g.length === 2
       ? `The solver starts from ${fmt(Number(g[0]))} and ${fmt(Number(g[1]))}${v.unit ? ` ${v.unit}` : ''}, the template's default guesses.`
-      : S.mode === 'template' ? "The solver starts from the template's default guesses for the unknown." : 'The solver starts from the guesses 1 and 2 (in the units of your equations).';
+      : S.mode === 'template' ? "The solver starts from the template's default guesses for the unknown." : 'The solver starts from the guesses 1 and 1.1 (in the units of your equations).';
   } else hint = kind === 'bracket' ? 'f must have opposite signs at the two ends.' : `Two different values of the unknown${S.mode === 'template' ? ', in its chosen unit' : ''}; no sign change is needed.`;
   byId('start-hint').textContent = hint;
 }
@@ -465,6 +465,7 @@ function presentResult(built, r) {
     notes: r.notes ?? [],
     caution: r.caution || (t?.caution ?? ''),
   });
+  byId('announce').textContent = `${answers.map((a) => `${a.symbol} = ${fmt(a.value, 6)} ${a.unit}`).join(', ')}: ${r.converged ? 'converged' : 'not converged'}.`;
   probe.solves++;
   if (probe.firstSolveMs === null) probe.firstSolveMs = performance.now();
   const history = convertHistory(r.history ?? [], conv);

@@ -3,7 +3,7 @@
 // Reading never throws: a damaged entry is reported and left out, and the damaged text is
 // copied to a backup key before anything is written over it, so nothing is lost.
 
-import { validateState } from './state.js';
+import { validateState, compactState } from './state.js';
 
 export const SAVED_KEY = 'tacit.saved.v1';
 export const EXTERNAL_KEY = 'tacit.external.v1';
@@ -38,7 +38,7 @@ function checkEntry(e, place, problems) {
     id: typeof e.id === 'string' && /^[a-z0-9-]{1,40}$/.test(e.id) ? e.id : newId(),
     name: e.name,
     saved: typeof e.saved === 'string' && e.saved.length <= 40 ? e.saved : '',
-    state,
+    state: compactState(state),
   };
 }
 
@@ -74,7 +74,12 @@ export function loadSaved() {
   });
   if (problems.length) {
     const b = backup(SAVED_KEY, text);
-    if (b) problems.push(`the original text was kept under the storage key ${b}`);
+    if (b) {
+      problems.push(`the original text was kept under the storage key ${b}`);
+      // With the original safe in the backup, keep only what could be read, so the same
+      // message does not come back (and another backup is not made) on every visit.
+      writeSaved(items);
+    }
   }
   return { items, problems };
 }

@@ -9,21 +9,29 @@ function decode7(text, length) {
   let acc = 0;
   let nbits = 0;
   let n = 0;
-  const push = (g) => {
-    acc = ((acc << 7) | g) & 0x7fff;
+  // One tight loop (it runs once, cold, on every page load): each character gives 7 bits,
+  // an escape character gives a forbidden 7-bit value and the next 7 bits.
+  for (let i = 0, len = text.length; i < len; i++) {
+    let c = text.charCodeAt(i);
+    let second = -1;
+    if (c >= 0x80) {
+      const v = c - 0x100;
+      c = FORBIDDEN[v >> 7];
+      second = v & 0x7f;
+    }
+    acc = ((acc << 7) | c) & 0x7fff;
     nbits += 7;
     if (nbits >= 8) {
       nbits -= 8;
       if (n < length) out[n++] = (acc >> nbits) & 0xff;
     }
-  };
-  for (let i = 0; i < text.length; i++) {
-    const c = text.charCodeAt(i);
-    if (c < 0x80) push(c);
-    else {
-      const v = c - 0x100;
-      push(FORBIDDEN[v >> 7]);
-      push(v & 0x7f);
+    if (second >= 0) {
+      acc = ((acc << 7) | second) & 0x7fff;
+      nbits += 7;
+      if (nbits >= 8) {
+        nbits -= 8;
+        if (n < length) out[n++] = (acc >> nbits) & 0xff;
+      }
     }
   }
   if (n !== length) throw new Error(`the inlined solver is damaged (${n} of ${length} bytes)`);

@@ -400,6 +400,22 @@ fn limited(
     };
     let l = eval(lo, names, values, place)?;
     let h = eval(hi, names, values, place)?;
+    if l.is_nan() || h.is_nan() {
+        // A square root of a negative number or 0/0 in a limit: the knowns admit no
+        // solution (a static lift above the pump's shut-off head, say).
+        let (which, text) = if l.is_nan() {
+            ("lower", lo)
+        } else {
+            ("upper", hi)
+        };
+        return Err(InputError::new(
+            "no-solution-range",
+            format!(
+                "{place}: with the given values the {which} limit `{text}` is not a number, \
+                 so no solution exists; check the inputs"
+            ),
+        ));
+    }
     let lo = if l.is_finite() {
         bounds.lo.max(l)
     } else {
@@ -502,6 +518,7 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
     let mut knowns: Vec<(String, f64)> = Vec::new();
     let mut list_values: Vec<f64> = Vec::new();
     let mut given: Vec<&str> = Vec::new();
+    let mut outside: Vec<String> = Vec::new();
     for (symbol, value, unit) in &req.values {
         let place = format!("value of {symbol} in template {}", t.id);
         if !value.is_finite() {
@@ -544,10 +561,19 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
                 ),
             ));
         }
-        knowns.push((
-            symbol.clone(),
-            units::to_si_in(*value, unit, &var.dimension)?,
-        ));
+        let si = units::to_si_in(*value, unit, &var.dimension)?;
+        let b = var.bounds_si()?;
+        if !b.contains(si) {
+            outside.push(format!(
+                "{symbol} = {} is outside the range this template takes for {} ({} to {}); \
+                 the result may have no physical meaning.",
+                with_unit(*value, unit),
+                var.meaning,
+                sig(var.bounds[0]),
+                with_unit(var.bounds[1], &var.unit)
+            ));
+        }
+        knowns.push((symbol.clone(), si));
     }
     for var in &t.variables {
         if var.symbol != unknown.symbol && !knowns.iter().any(|(s, _)| s == &var.symbol) {
@@ -628,7 +654,7 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
             bounds: b,
         });
     }
-    let mut notes = Vec::new();
+    let mut notes = outside;
     let set_knowns: Vec<(String, f64)> = knowns
         .iter()
         .filter(|(s, _)| used.iter().any(|u| u == s))
@@ -806,6 +832,14 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
             solution.status.code(),
             solution.status.diagnosis()
         ));
+        // Warnings written in the knowns alone (a cable shorter than its span) may say
+        // why; those that need the unknown are not evaluated at a point that is no root.
+        let place = format!("warning in template {}", t.id);
+        for w in &t.warnings {
+            if eval(&w.when, &names, &values, &place).is_ok_and(|v| v > 0.0) {
+                notes.push(w.text.clone());
+            }
+        }
     }
     outputs.extend(approximations);
     other_roots.sort_by(f64::total_cmp);

@@ -3,6 +3,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { readFileSync } from 'node:fs';
+import { createHash } from 'node:crypto';
 import { launch, openPage, checkClean, fragmentFor, PAGE_PATH, pickTemplate, solveAndRead } from './lib.mjs';
 
 let browser;
@@ -96,8 +97,17 @@ test('the page carries a strict Content-Security-Policy with script hashes', asy
   assert.match(csp, /connect-src 'none'/);
   assert.match(csp, /worker-src blob:/);
   assert.match(csp, /'wasm-unsafe-eval'/);
-  assert.doesNotMatch(csp, /script-src[^;]*'unsafe-inline'/);
-  assert.equal((csp.match(/'sha256-[A-Za-z0-9+/=]+'/g) || []).length, 2, 'two hashed scripts');
+  assert.doesNotMatch(csp, /'unsafe-inline'/);
+  assert.doesNotMatch(csp, /'unsafe-eval'/);
+  // Every executable inline script, and the style element, is allowed by its own hash.
+  const directive = (name) => csp.split(';').map((d) => d.trim()).find((d) => d.startsWith(`${name} `)) ?? '';
+  const hash = (text) => `'sha256-${createHash('sha256').update(text, 'utf8').digest('base64')}'`;
+  const scripts = [...html.matchAll(/<script(?: type="module"[^>]*)?>([\s\S]*?)<\/script>/g)].map((m) => m[1]);
+  assert.equal(scripts.length, 2, 'two executable inline scripts');
+  for (const text of scripts) assert.ok(directive('script-src').includes(hash(text)), 'the script hash is in script-src');
+  assert.equal((directive('script-src').match(/'sha256-/g) || []).length, 2, 'no other script is allowed');
+  const style = html.match(/<style>([\s\S]*?)<\/style>/)[1];
+  assert.ok(directive('style-src').includes(hash(style)), 'the style hash is in style-src');
   assert.doesNotMatch(html, /<script[^>]+src=/, 'no external script');
   assert.doesNotMatch(html, /<link[^>]+href=/, 'no external stylesheet or font');
   const { page, log } = await openPage(browser);

@@ -7,7 +7,8 @@ import { join } from 'node:path';
 import { launch, openPage, checkClean, pickTemplate, setValue, chooseUnknown, solveAndRead, historyRows, close, shot, ARTIFACTS } from './lib.mjs';
 
 // fluids.friction.Colebrook(Re=1e5, eD=1e-4): the value asserted in the test suite of the
-// `fluids` library (PyPI), which evaluates Colebrook–White in closed form with Lambert W.
+// `fluids` library (PyPI), which evaluates Colebrook–White in closed form with Lambert W;
+// `fluids.friction.Colebrook(1e5, 1e-4)` from PyPI's fluids prints the same digits.
 const COLEBROOK_RE = 1e5;
 const COLEBROOK_ED = 1e-4;
 const COLEBROOK_F = 0.018513866077471648;

@@ -162,5 +162,10 @@ test('damaged storage gives a clear message, keeps the damaged text and everythi
   assert.equal(await first.page.textContent('#saved-list li .saved-name'), 'good one');
   assert.match(await first.page.textContent('.notice'), /saved entry 2/);
   await shot(first.page, 'damaged-storage-notice', { fullPage: false });
+  // The next visit finds only the good entry, and says nothing.
+  await first.page.reload();
+  await first.page.waitForFunction(() => globalThis.tacitPage?.ready === true);
+  assert.equal(await first.page.locator('.notice').count(), 0);
+  assert.equal(await first.page.textContent('#saved-list li .saved-name'), 'good one');
   checkClean(first.log);
 });

@@ -56,11 +56,18 @@ test('a long sweep can be cancelled, and the next sweep runs', async () => {
   await colebrook(page);
   await sweepRe(page, 5000, 1e8, 100000);
   const starts = await page.evaluate(() => globalThis.tacitPage.workerStarts);
-  await page.click('#sweep-run');
-  await page.waitForFunction(() => !document.getElementById('sweep-progress').hidden);
-  await page.click('#sweep-cancel');
+  const sweeps = await page.evaluate(() => globalThis.tacitPage.sweeps);
+  // Start, then cancel while the worker is busy (in one turn of the page, so the test does
+  // not race the worker to the end of the job).
+  await page.evaluate(() => {
+    document.getElementById('sweep-run').click();
+    document.getElementById('sweep-cancel').click();
+  });
   assert.equal(await page.textContent('#sweep-status'), 'Sweep cancelled.');
   assert.equal(await page.evaluate(() => globalThis.tacitPage.workerStarts), starts + 1, 'a fresh worker');
+  await page.waitForTimeout(1500);
+  assert.equal(await page.evaluate(() => globalThis.tacitPage.sweeps), sweeps, 'the cancelled sweep never reports');
+  assert.equal(await page.isDisabled('#sweep-cancel'), true);
   await sweepRe(page, 5000, 1e6, 20);
   const before = await page.evaluate(() => globalThis.tacitPage.sweeps);
   await page.click('#sweep-run');

@@ -150,7 +150,7 @@ from scipy.optimize import minimize_scalar  # noqa: E402
 
 Qc, bc, zc = 3.2, 1.5, 2.0
 spec_energy = lambda y: y + Qc * Qc / (2 * G * ((bc + zc * y) * y) ** 2)
-yc = minimize_scalar(spec_energy, bounds=(0.05, 3.0), method="bounded", options={"xatol": 1e-12}).x
+yc = float(minimize_scalar(spec_energy, bounds=(0.05, 3.0), method="bounded", options={"xatol": 1e-12}).x)
 show("critical depth by least specific energy", v("scipy"), "optimize.minimize_scalar(bounded) on E(y)", yc)
 
 # coastal.wave-dispersion: T = 10 s, h = 10 m, scipy brentq on omega^2 = g k tanh(k h)
