@@ -118,7 +118,9 @@ pub(crate) fn restore(text: &str) -> Result<Stepper, InputError> {
         let (a, b) = pair(g, "start.bracket")?;
         Start::Bracket(a, b)
     } else {
-        return Err(bad("field \"start\" has neither \"guesses\" nor \"bracket\""));
+        return Err(bad(
+            "field \"start\" has neither \"guesses\" nor \"bracket\"",
+        ));
     };
     let t = field(obj, "tolerances")?
         .as_object()

@@ -57,10 +57,7 @@ impl Tolerances {
         if self.max_evals < 2 {
             return Err(InputError::new(
                 "bad-tolerance",
-                format!(
-                    "max_evals must be at least 2, got {}",
-                    self.max_evals
-                ),
+                format!("max_evals must be at least 2, got {}", self.max_evals),
             ));
         }
         Ok(())

@@ -209,7 +209,8 @@ pub static UNITS: &[Unit] = &[
         NIST,
     ),
     u("mmHg", &[], "pressure", 1.333_224e2, NIST),
-    u("ftH2O", &["ft H2O"], "pressure", 2.988_98e3, NIST),
+    // The symbol ftH2O is NIST's conventional foot of water (not the 39.2 °F one).
+    u("ftH2O", &["ft H2O"], "pressure", 2.989_067e3, NIST),
     // unit weight (weight per volume)
     u("N/m^3", &["N/m3", "N/m³"], "unit_weight", 1.0, SI),
     u("kN/m^3", &["kN/m3", "kN/m³"], "unit_weight", 1e3, PREFIX),
@@ -565,7 +566,10 @@ fn normalize(text: &str) -> String {
 
 fn matches(unit: &Unit, wanted: &str) -> bool {
     normalized(unit.symbol).eq(wanted.chars())
-        || unit.aliases.iter().any(|a| normalized(a).eq(wanted.chars()))
+        || unit
+            .aliases
+            .iter()
+            .any(|a| normalized(a).eq(wanted.chars()))
 }
 
 /// Every row whose symbol or alias is `symbol` (one per dimension it belongs to).

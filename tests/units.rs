@@ -227,9 +227,9 @@ const EXPECTED: &[(&str, &str, f64, bool, &str)] = &[
     (
         "ftH2O",
         "pressure",
-        2.98898e3,
+        2.989067e3,
         false,
-        "NIST B.8 foot of water (39.2 °F)",
+        "NIST B.8 foot of water, conventional (ftH2O); recalled from memory (the 39.2 °F entry is 2.98898E+03)",
     ),
     ("N/m^3", "unit_weight", 1.0, true, "SI"),
     ("kN/m^3", "unit_weight", 1e3, true, "SI Table 7"),

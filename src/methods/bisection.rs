@@ -37,7 +37,11 @@ impl Bisection {
 
     /// Starts from a bracket whose end values are already known (no re-evaluation).
     pub fn from_bracket(a: f64, fa: f64, b: f64, fb: f64) -> Bisection {
-        let (a, fa, b, fb) = if a <= b { (a, fa, b, fb) } else { (b, fb, a, fa) };
+        let (a, fa, b, fb) = if a <= b {
+            (a, fa, b, fb)
+        } else {
+            (b, fb, a, fa)
+        };
         Bisection {
             a,
             fa,
