@@ -104,7 +104,7 @@ export function showHistory(rows, curve, xLabel) {
     tb.append(
       h('tr', null,
         h('td', null, String(r.k)),
-        h('td', { title: full(r.x) }, fmt(r.x, 12)),
+        h('td', { title: full(r.x) }, fmt(r.x, 15)),
         h('td', { title: full(r.fx) }, fmt(r.fx, 6)),
         h('td', { title: full(r.step) }, r.step === null || Number.isNaN(r.step) ? '—' : fmt(r.step, 4)),
         h('td', { class: 'kind' }, kindWords(r.kind)),

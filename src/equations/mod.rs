@@ -10,7 +10,7 @@
 //! - [`solve`]: [`solve_set`] for any variable(s), default guesses.
 //! - [`sensitivity`]: derivatives of the unknowns by the implicit function theorem.
 //!
-//! The language itself is documented in `docs/equation-language.md`.
+//! The language itself is documented in the README, section "The equation language".
 //!
 //! ```
 //! use tacit::equations::{solve_set, EquationSet, UnknownSpec};
