@@ -53,37 +53,23 @@ impl Bisection {
     }
 
     fn best(&self) -> (f64, f64) {
-        if self.fa.abs() <= self.fb.abs() {
-            (self.a, self.fa)
-        } else {
-            (self.b, self.fb)
+        super::better((self.a, self.fa), (self.b, self.fb))
+    }
+
+    /// Checks the ends once both are known, then takes the first step.
+    fn start(&mut self, ctx: &Context) -> Ask {
+        if let Some(done) = super::check_bracket_ends((self.a, self.fa), (self.b, self.fb)) {
+            return done;
         }
+        self.next(ctx)
     }
 
     fn next(&mut self, ctx: &Context) -> Ask {
-        if self.fa == 0.0 {
-            return Finish::at(Status::ExactZero, self.a, self.fa);
-        }
-        if self.fb == 0.0 {
-            return Finish::at(Status::ExactZero, self.b, self.fb);
-        }
-        if !self.fa.is_finite() || !self.fb.is_finite() {
-            let (x, fx) = if self.fa.is_finite() {
-                (self.a, self.fa)
-            } else {
-                (self.b, self.fb)
-            };
-            return Finish::at(Status::NonFinite, x, fx);
-        }
-        if self.fa.signum() == self.fb.signum() {
-            let (x, fx) = self.best();
-            return Finish::at(Status::NoSignChange, x, fx);
-        }
         let (x, fx) = self.best();
         if fx.abs() <= ctx.tol.f_abs {
             return Finish::at(Status::ConvergedResidual, x, fx);
         }
-        let m = self.a + (self.b - self.a) / 2.0;
+        let m = super::hybrid::midpoint(self.a, self.b);
         if m <= self.a || m >= self.b || self.b - self.a <= 2.0 * ctx.tol.x_tol(m) {
             return Finish::at(Status::ConvergedStep, x, fx);
         }
@@ -112,14 +98,17 @@ impl ScalarMethod for Bisection {
                 self.b = x;
                 self.fb = fx;
                 self.phase = 4;
-                self.next(ctx)
+                self.start(ctx)
             }
             (2, None) => {
                 self.phase = 4;
-                self.next(ctx)
+                self.start(ctx)
             }
             (_, Some((x, fx))) => {
                 self.iterations += 1;
+                if fx == 0.0 {
+                    return Finish::at(Status::ExactZero, x, fx);
+                }
                 if fx.is_nan() {
                     return Finish::at(Status::NonFinite, x, fx);
                 }
@@ -137,7 +126,7 @@ impl ScalarMethod for Bisection {
     }
 
     fn bracket(&self) -> Option<(f64, f64)> {
-        if self.fa.is_finite() && self.fb.is_finite() && self.fa.signum() != self.fb.signum() {
+        if !self.fa.is_nan() && !self.fb.is_nan() && self.fa.signum() != self.fb.signum() {
             Some((self.a, self.b))
         } else {
             None

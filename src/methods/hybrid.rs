@@ -169,22 +169,8 @@ impl Hybrid {
 
     /// Checks the two ends once both are known.
     fn check_start(&mut self, ctx: &Context) -> Ask {
-        for (x, fx) in [(self.x1, self.f1), (self.x2, self.f2)] {
-            if fx == 0.0 {
-                return Finish::at(Status::ExactZero, x, fx);
-            }
-        }
-        if self.f1.is_nan() || self.f2.is_nan() {
-            let (x, fx) = if self.f1.is_nan() {
-                (self.x2, self.f2)
-            } else {
-                (self.x1, self.f1)
-            };
-            return Finish::at(Status::NonFinite, x, fx);
-        }
-        if self.f1.signum() == self.f2.signum() {
-            let (x, fx) = self.best();
-            return Finish::at(Status::NoSignChange, x, fx);
+        if let Some(done) = super::check_bracket_ends((self.x1, self.f1), (self.x2, self.f2)) {
+            return done;
         }
         let (lo, hi) = self.ends();
         self.anchor_width = hi - lo;

@@ -62,11 +62,7 @@ impl Illinois {
     }
 
     fn best(&self) -> (f64, f64) {
-        if self.fa.abs() <= self.fb.abs() {
-            (self.a, self.fa)
-        } else {
-            (self.b, self.fb)
-        }
+        super::better((self.a, self.fa), (self.b, self.fb))
     }
 
     fn start(&mut self, ctx: &Context) -> Ask {
@@ -76,23 +72,8 @@ impl Illinois {
         }
         self.ga = self.fa;
         self.gb = self.fb;
-        if self.fa == 0.0 {
-            return Finish::at(Status::ExactZero, self.a, self.fa);
-        }
-        if self.fb == 0.0 {
-            return Finish::at(Status::ExactZero, self.b, self.fb);
-        }
-        if self.fa.is_nan() || self.fb.is_nan() {
-            let (x, fx) = if self.fa.is_nan() {
-                (self.b, self.fb)
-            } else {
-                (self.a, self.fa)
-            };
-            return Finish::at(Status::NonFinite, x, fx);
-        }
-        if self.fa.signum() == self.fb.signum() {
-            let (x, fx) = self.best();
-            return Finish::at(Status::NoSignChange, x, fx);
+        if let Some(done) = super::check_bracket_ends((self.a, self.fa), (self.b, self.fb)) {
+            return done;
         }
         self.next(ctx)
     }
