@@ -37,9 +37,12 @@ say "wasm-bindgen $(wasm-bindgen --version | awk '{print $2}') --target web"
 wasm-bindgen --target web --out-dir "$OUT" --out-name tacit_core "$WASM"
 
 if [ "${TACIT_NO_WASM_OPT:-}" != 1 ] && [ -x node_modules/.bin/wasm-opt ]; then
-  say "wasm-opt -Os (npm binaryen $(node -p 'require("./node_modules/binaryen/package.json").version'))"
+  say "wasm-opt -Os --converge (npm binaryen $(node -p 'require("./node_modules/binaryen/package.json").version'))"
   # rustc emits these features by default; wasm-opt must be told it may keep them.
-  node_modules/.bin/wasm-opt -Os --enable-bulk-memory --enable-nontrapping-float-to-int \
+  # -Os, not -Oz: -Oz is as small after gzip. The producers and target-features custom
+  # sections are not needed once wasm-bindgen has run.
+  node_modules/.bin/wasm-opt -Os --converge --strip-debug --strip-producers --strip-target-features \
+    --enable-bulk-memory --enable-nontrapping-float-to-int \
     --enable-sign-ext --enable-mutable-globals --enable-reference-types --enable-multivalue \
     "$OUT/tacit_core_bg.wasm" -o "$OUT/tacit_core_bg.wasm.opt"
   mv "$OUT/tacit_core_bg.wasm.opt" "$OUT/tacit_core_bg.wasm"

@@ -33,7 +33,8 @@ if [ "${TACIT_SKIP_BROWSER:-}" != 1 ]; then
   fi
 fi
 
-if [ ! -d node_modules/playwright-core ] || [ ! -d node_modules/binaryen ] || [ ! -d node_modules/axe-core ]; then
+if [ ! -d node_modules/playwright-core ] || [ ! -d node_modules/binaryen ] || [ ! -d node_modules/axe-core ] \
+  || [ ! -d node_modules/esbuild ] || [ ! -d node_modules/@gfx/zopfli ]; then
   say "installing npm packages"
   npm ci --no-audit --no-fund
 fi

@@ -43,7 +43,7 @@ use crate::units;
 pub const CAUTION: &str =
     "Results support, and do not replace, checks by a licensed professional under local codes.";
 
-const CATALOGUE_TEXT: &str = include_str!("catalogue.json");
+const CATALOGUE_TEXT: &str = include_str!(concat!(env!("OUT_DIR"), "/catalogue.json"));
 
 /// One bundled template.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
