@@ -476,6 +476,8 @@ export class Stepper {
   readonly evaluations: number;
   /** The result once done, else null. */
   readonly result: ScalarResult | null;
+  /** The history rows so far, one per evaluation (empty unless created with `history: true`). */
+  readonly history: HistoryRow[];
   /** The set-up and every value told so far, as JSON. */
   save(): string;
   /** Releases the memory now instead of at garbage collection. */

@@ -378,6 +378,12 @@ export class Stepper {
     return text === undefined ? null : decode(text);
   }
 
+  /** The history rows so far (empty unless created with history: true). */
+  get history() {
+    const h = this.#handle();
+    return decode(guarded(() => h.history()));
+  }
+
   save() {
     const h = this.#handle();
     return guarded(() => h.save());

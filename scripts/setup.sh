@@ -33,8 +33,8 @@ if [ "${TACIT_SKIP_BROWSER:-}" != 1 ]; then
   fi
 fi
 
-if [ ! -d node_modules/playwright-core ] || [ ! -d node_modules/binaryen ] || [ ! -d node_modules/axe-core ] \
-  || [ ! -d node_modules/esbuild ] || [ ! -d node_modules/@gfx/zopfli ]; then
+# npm records what it installed in node_modules/.package-lock.json; a newer lock file means a change.
+if [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
   say "installing npm packages"
   npm ci --no-audit --no-fund
 fi

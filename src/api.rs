@@ -498,6 +498,11 @@ impl StepperSession {
         self.stepper.solution().map(|s| text_of(solution_value(s)))
     }
 
+    /// The history rows so far as a JSON list (empty unless history was asked for).
+    pub fn history(&self) -> String {
+        text_of(history_value(self.stepper.history()))
+    }
+
     pub fn save(&self) -> String {
         self.stepper.save()
     }

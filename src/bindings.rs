@@ -296,6 +296,11 @@ impl StepperHandle {
         self.0.result()
     }
 
+    /// The history rows so far as JSON (empty unless history was asked for).
+    pub fn history(&self) -> String {
+        self.0.history()
+    }
+
     pub fn save(&self) -> String {
         self.0.save()
     }

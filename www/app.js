@@ -1078,8 +1078,7 @@ function renderExternal() {
     showHistory(r.history, null, 'x');
   } else {
     byId('result').hidden = true;
-    const rows = points.map(([px, pf], i) => ({ k: i + 1, x: Number(px), fx: Number(pf), step: i === 0 ? NaN : Number(px) - Number(points[i - 1][0]), kind: i < 2 ? 'initial' : 'step' }));
-    showHistory(rows, null, 'x');
+    showHistory(st.history, null, 'x');
     byId('plot-function-caption').textContent = `${label} at the points evaluated so far`;
   }
 }

@@ -172,6 +172,9 @@ test("a stepper driven to the end, saved and restored mid-way", async () => {
   // ... the browser closes; days later:
   const resumed = tacit.Stepper.restore(saved);
   assert.equal(resumed.evaluations, 3);
+  // The history so far is replayed too: the same rows as the uninterrupted solve's first three.
+  assert.deepEqual(resumed.history, expected.history.slice(0, 3));
+  assert.deepEqual(resumed.history.slice(0, 2).map((r) => r.kind), ["initial", "initial"]);
   assert.equal(resumed.done, false);
   assert.equal(resumed.result, null);
   let x;
