@@ -21,6 +21,8 @@
 //! ```
 
 use crate::error::{require_finite, InputError};
+use std::collections::HashMap;
+use std::sync::OnceLock;
 
 /// One unit: `si = value * factor + offset`.
 #[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
@@ -564,18 +566,32 @@ fn normalize(text: &str) -> String {
     normalized(text).collect()
 }
 
-fn matches(unit: &Unit, wanted: &str) -> bool {
-    normalized(unit.symbol).eq(wanted.chars())
-        || unit
-            .aliases
-            .iter()
-            .any(|a| normalized(a).eq(wanted.chars()))
-}
-
 /// Every row whose symbol or alias is `symbol` (one per dimension it belongs to).
 pub fn lookup(symbol: &str) -> Vec<&'static Unit> {
     let wanted = normalize(symbol);
-    UNITS.iter().filter(|unit| matches(unit, &wanted)).collect()
+    index().get(&wanted).cloned().unwrap_or_default()
+}
+
+/// Every normalised symbol and alias, mapped to its rows in table order; built once.
+fn index() -> &'static HashMap<String, Vec<&'static Unit>> {
+    static INDEX: OnceLock<HashMap<String, Vec<&'static Unit>>> = OnceLock::new();
+    INDEX.get_or_init(|| {
+        let mut map: HashMap<String, Vec<&'static Unit>> = HashMap::new();
+        for unit in UNITS {
+            let mut names: Vec<String> = std::iter::once(unit.symbol)
+                .chain(unit.aliases.iter().copied())
+                .map(normalize)
+                .collect();
+            names.dedup();
+            for name in names {
+                let rows = map.entry(name).or_default();
+                if !rows.iter().any(|r| std::ptr::eq(*r, unit)) {
+                    rows.push(unit);
+                }
+            }
+        }
+        map
+    })
 }
 
 fn unknown_unit(symbol: &str) -> InputError {
