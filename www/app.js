@@ -233,7 +233,7 @@ function renderStart() {
     const v = currentTemplate()?.variables.find((x) => x.symbol === S.unknown);
     const g = v?.guesses;
     hint = Array.isArray(g) && g.length === 2
-      ? `The solver starts from ${fmt(Number(g[0]))} and ${fmt(Number(g[1]))}${v.unit ? ` ${v.unit}` : ''}, the template's default guesses.`
+      ? `The solver starts from ${fmt(Number(g[0]))} and ${fmt(Number(g[1]))}${prettyUnit(v.unit) ? ` ${prettyUnit(v.unit)}` : ''}, the template's default guesses.`
       : S.mode === 'template' ? "The solver starts from the template's default guesses for the unknown." : 'The solver starts from the guesses 1 and 1.1 (in the units of your equations).';
   } else hint = kind === 'bracket' ? 'f must have opposite signs at the two ends.' : `Two different values of the unknown${S.mode === 'template' ? ', in its chosen unit' : ''}; no sign change is needed.`;
   byId('start-hint').textContent = hint;
