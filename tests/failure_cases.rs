@@ -319,6 +319,22 @@ fn each_failure_has_its_own_status() {
             Status::Flat,
         ),
         (
+            "exp(x): the estimates run off towards -infinity",
+            options(MethodKind::Auto),
+            (0.0, 1.0),
+            |x| x.exp(),
+            Status::Diverging,
+        ),
+        (
+            // Runaway secant steps, but the smallest |f| is an interior minimum above zero:
+            // reported as no sign change, not as divergence.
+            "(x-1)^4 + 1e-9",
+            options(MethodKind::Auto),
+            (2.0, 3.0),
+            |x| (x - 1.0).powi(4) + 1e-9,
+            Status::NoSignChange,
+        ),
+        (
             "(x-1)^2 + 1e-6",
             options(MethodKind::Auto),
             (2.0, 3.0),

@@ -620,13 +620,23 @@ impl Auto {
 
     /// No sign change could be found: the most specific status observed.
     fn fail(&mut self, _ctx: &Context) -> Ask {
+        // Runaway steps are called divergence only when the best point is also the
+        // outermost one; a smallest |f| inside the explored range is a minimum that does
+        // not reach zero, which the no-sign-change diagnosis describes.
+        let (best_x, best_f) = self.best();
+        let informative = || self.points.iter().filter(|&&(_, ft)| good(ft) && ft != 0.0);
+        // Points beyond the best one, on either side, that are no better than it.
+        let beyond_no_better = |side: f64| {
+            informative().all(|&(t, ft)| (t - best_x) * side <= 0.0 || ft.abs() <= best_f.abs())
+        };
+        let outermost = beyond_no_better(1.0) || beyond_no_better(-1.0);
         let status = match self.symptom {
-            Symptom::Diverging => Status::Diverging,
+            Symptom::Diverging if outermost => Status::Diverging,
             Symptom::Oscillating => Status::Oscillating,
             _ if self.nonfinite_seen => Status::NonFinite,
             _ if self.bound_hit || self.pressed_bound > 0 => Status::StuckAtBound,
             Symptom::Stagnated => Status::Stagnated,
-            Symptom::None => {
+            Symptom::None | Symptom::Diverging => {
                 let mut goods = self.points.iter().filter(|p| good(p.1));
                 let first = goods.next().map(|p| p.1);
                 if first.is_some() && goods.all(|p| Some(p.1) == first) {
