@@ -138,6 +138,28 @@ fn functions_of_the_language() {
 }
 
 #[test]
+fn cancellation_free_forms_match_the_standard_library() {
+    // Reference: Rust's standard library f64::exp_m1 and f64::ln_1p (libm), which keep
+    // full relative precision for small arguments where exp(x) - 1 and ln(1 + x) lose it.
+    for x in [1e-300, -1e-17, 1e-10, -3e-8, 0.5, -0.75, 7.0, 700.0] {
+        check(&format!("expm1({x:e})"), f64::exp_m1(x), "std exp_m1");
+        check(&format!("log1p({x:e})"), f64::ln_1p(x), "std ln_1p");
+    }
+    // At 1e-10 the naive forms have lost about six digits; the new ones have not.
+    let naive = value("exp(1e-10) - 1");
+    let exact = value("expm1(1e-10)");
+    assert!(
+        (naive - 1e-10).abs() > 1e-18,
+        "naive form is visibly off: {naive:e}"
+    );
+    assert!(
+        (exact - 1.00000000005e-10).abs() < 1e-25,
+        "expm1(1e-10) = {exact:e}"
+    );
+    assert!(value("log1p(-1)").is_infinite() && value("log1p(-2)").is_nan());
+}
+
+#[test]
 fn statements_comments_and_definitions() {
     let text = "# pipe flow\nA := pi*D^2/4   # area\nQ = V*A; hf = k*V^2\n\n  \n";
     let set = EquationSet::parse(text).unwrap();

@@ -187,6 +187,16 @@ pub const FUNCTIONS: &[Function] = &[
     f1!("cbrt", f64::cbrt, "cube root"),
     f1!("exp", f64::exp, "e to the power x"),
     f1!("ln", f64::ln, "natural logarithm"),
+    f1!(
+        "expm1",
+        f64::exp_m1,
+        "e^x − 1, exact for small x (no cancellation)"
+    ),
+    f1!(
+        "log1p",
+        f64::ln_1p,
+        "ln(1 + x), exact for small x (no cancellation)"
+    ),
     f1!("log10", f64::log10, "base-10 logarithm"),
     f1!("log2", f64::log2, "base-2 logarithm"),
     f1!("abs", f64::abs, "absolute value"),
