@@ -7,7 +7,10 @@
 /** A method of the scalar driver. "auto" is the default. */
 export type MethodName = "auto" | "secant" | "hybrid" | "bisection" | "illinois";
 
-/** How a solve ended. Only the first three mean the root can be trusted. */
+/**
+ * How a solve ended. Only the first three mean the root can be trusted, and they come
+ * only with a `certificate` (the evidence).
+ */
 export type StatusCode =
   | "converged-step"
   | "converged-residual"
@@ -19,7 +22,33 @@ export type StatusCode =
   | "stagnated"
   | "no-sign-change"
   | "non-finite"
-  | "stuck-at-bound";
+  | "stuck-at-bound"
+  | "discontinuity"
+  | "large-residual"
+  | "zero-plateau";
+
+/** Which evidence stands behind a converged answer. */
+export type CertificateKind = "bracket" | "step" | "residual" | "exact-zero" | "touching";
+
+/**
+ * The evidence for a converged answer, with the numbers a reviewer needs to check it
+ * (README, "What converged means").
+ */
+export interface Certificate {
+  kind: CertificateKind;
+  /** The evidence in plain words. */
+  explanation: string;
+  /** |f| where the residual was measured. */
+  residual: number;
+  /** The bound the residual met (0 for an exact zero). */
+  bound: number;
+  /** Ends of opposite sign around the root, when known. */
+  bracket: [number, number] | null;
+  /** The final bracket's width or the last step (0 when not used). */
+  width: number;
+  /** The evaluated point [x, f(x)] the shrinking of |f| was measured against. */
+  reference: [number, number] | null;
+}
 
 /** The kind of step that produced an evaluated point. */
 export type StepKindCode =
@@ -32,7 +61,8 @@ export type StepKindCode =
   | "bracket-search"
   | "backtrack"
   | "scan"
-  | "probe";
+  | "probe"
+  | "check";
 
 /** Stopping tolerances and the evaluation budget. Omitted fields keep their defaults. */
 export interface Tolerances {
@@ -42,7 +72,7 @@ export interface Tolerances {
   xRel?: number;
   /** Residual tolerance: stop when |f(x)| <= fAbs (default 0: only an exact zero). */
   fAbs?: number;
-  /** Budget of function evaluations, initial ones included (default 200, at most 10 000 000). */
+  /** Budget of function evaluations, initial ones included (default 200, at most 1 000 000). */
   maxEvals?: number;
 }
 
@@ -79,6 +109,8 @@ export interface HistoryRow {
 /** The outcome of a solve. `converged` is true only when `status` says so. */
 export interface SolveOutcome {
   converged: boolean;
+  /** The evidence, exactly when `converged`; null otherwise. */
+  certificate: Certificate | null;
   status: StatusCode;
   /** A plain-language diagnosis that says what to try next. */
   message: string;
@@ -94,7 +126,12 @@ export interface ScalarResult extends SolveOutcome {
   residual: number;
   residualAt: number;
   bracket: [number, number] | null;
+  /** Evaluations the driver made to check the method's claim of convergence. */
+  checks: number;
+  /** At most 4000 rows: the first 1000 and the last 3000. */
   history: HistoryRow[];
+  /** Rows left out of `history` between its two ends. */
+  historyDropped: number;
 }
 
 export interface SystemHistoryRow {
@@ -333,6 +370,8 @@ export interface RangeRoot {
   fx: number;
   kind: RootKind;
   converged: boolean;
+  /** The evidence that this is a root, exactly when `converged`. */
+  certificate: Certificate | null;
 }
 
 /** All roots in [lo, hi] of a text equation with one unknown, or of a JS function. */
@@ -351,6 +390,8 @@ export interface FindRootsRequest {
 
 export interface FindRootsResult {
   roots: RangeRoot[];
+  /** Sign changes that are poles or jumps, not roots: the final bracket of each. */
+  discontinuities: Array<[number, number]>;
   evaluations: number;
   samples: number;
   spacing: number;
@@ -460,6 +501,8 @@ export function units(): DimensionUnits[];
 export function checkEquation(text: string): CheckResult;
 /** The crate version of the module. */
 export const version: string;
+/** Solves may run one inside another's callback at most this many levels deep. */
+export const MAX_NESTING: number;
 
 /** An ask–tell solve: it says where to evaluate and waits, as long as it takes. */
 export class Stepper {

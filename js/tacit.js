@@ -206,7 +206,30 @@ function checkValue(fx, x, name) {
 }
 
 function callbackThrew(e, call) {
+  // A nested solve refused for its depth keeps its own error, so the caller learns why.
+  if (e instanceof TacitError && e.code === "nesting-too-deep") return e;
   return new TacitError("callback-threw", `${call} threw: ${messageOf(e)}`, undefined, { cause: e });
+}
+
+// Synchronous solves running now, one inside another's callback when above 1. Each
+// level holds frames on the JavaScript and WebAssembly stacks; the core refuses more
+// than this many levels too.
+export const MAX_NESTING = 32;
+let depth = 0;
+
+function nested(run) {
+  if (depth >= MAX_NESTING) {
+    throw new TacitError(
+      "nesting-too-deep",
+      `solves nested ${MAX_NESTING} deep (a callback that starts a solve, whose callback starts another…); at most ${MAX_NESTING} levels are allowed`,
+    );
+  }
+  depth += 1;
+  try {
+    return run();
+  } finally {
+    depth -= 1;
+  }
 }
 
 function evaluate(f, x) {
@@ -297,7 +320,7 @@ export function findRoots(req) {
     };
     let text;
     try {
-      text = guarded(() => core.findRootsFunction(adapted, json));
+      text = nested(() => guarded(() => core.findRootsFunction(adapted, json)));
     } catch (e) {
       throw failure ?? e;
     }
@@ -393,7 +416,11 @@ export class Stepper {
     if (this.#h !== null) {
       const h = this.#h;
       this.#h = null;
-      h.free();
+      try {
+        h.free();
+      } catch {
+        // An instance that stopped on an internal error cannot free; nothing is lost.
+      }
     }
   }
 }
@@ -401,15 +428,17 @@ export class Stepper {
 /** Solves f(x) = 0 for a JS function, with guesses or a bracket, bounds and tolerances. */
 export function solveFunction(f, opts) {
   requireFunction(f, "f");
-  const stepper = Stepper.create(opts);
-  try {
-    for (let x = stepper.next(); x !== null; x = stepper.next()) {
-      stepper.tell(evaluate(f, x));
+  return nested(() => {
+    const stepper = Stepper.create(opts);
+    try {
+      for (let x = stepper.next(); x !== null; x = stepper.next()) {
+        stepper.tell(evaluate(f, x));
+      }
+      return stepper.result;
+    } finally {
+      stepper.free();
     }
-    return stepper.result;
-  } finally {
-    stepper.free();
-  }
+  });
 }
 
 /** As solveFunction, for a function that may return a Promise. */
@@ -454,7 +483,7 @@ export function solveSystemFunction(F, opts) {
   };
   let text;
   try {
-    text = guarded(() => core.solveSystemFunction(adapted, json));
+    text = nested(() => guarded(() => core.solveSystemFunction(adapted, json)));
   } catch (e) {
     throw failure ?? e;
   }

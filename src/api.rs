@@ -19,9 +19,10 @@ use crate::equations::{self, EquationSet, SetSolution, UnknownSpec};
 use crate::roots_in_range::{self, RangeRoots, ScanOptions};
 use crate::templates::{self, TemplateRequest, TemplateSolution};
 
-use crate::driver::{MethodKind, Options, Start, Stepper};
 use crate::error::InputError;
+use crate::methods::{MethodKind, Options, Start};
 use crate::outcome::{HistoryRow, Solution, StepKind};
+use crate::stepper::Stepper;
 use crate::tolerances::{Bounds, Tolerances};
 
 /// Longest request accepted, in bytes.
@@ -29,7 +30,9 @@ pub const MAX_REQUEST_BYTES: usize = 4 << 20;
 /// Longest equation text accepted, in characters.
 pub const MAX_EQUATION_CHARS: usize = 100_000;
 /// Largest evaluation budget accepted.
-pub const MAX_EVALS: usize = 10_000_000;
+pub const MAX_EVALS: usize = crate::tolerances::MAX_EVALS;
+/// Longest saved stepper accepted: a record of the largest budget fits.
+pub const MAX_SAVED_STEPPER_BYTES: usize = 64 << 20;
 
 // ---------------------------------------------------------------------------------------
 // Writing results
@@ -75,6 +78,22 @@ fn history_value(rows: &[HistoryRow]) -> Value {
     )
 }
 
+/// The evidence for a converged answer as a JSON object (null when not converged).
+pub fn certificate_value(c: Option<&crate::Certificate>) -> Value {
+    match c {
+        None => Value::Null,
+        Some(c) => json!({
+            "kind": c.kind.code(),
+            "explanation": c.kind.explanation(),
+            "residual": num(c.residual),
+            "bound": num(c.bound),
+            "bracket": pair_value(c.bracket),
+            "width": num(c.width),
+            "reference": pair_value(c.reference),
+        }),
+    }
+}
+
 /// A scalar [`Solution`] as a JSON object.
 pub fn solution_value(s: &Solution) -> Value {
     json!({
@@ -86,8 +105,11 @@ pub fn solution_value(s: &Solution) -> Value {
         "message": s.message(),
         "evaluations": s.evaluations,
         "iterations": s.iterations,
+        "checks": s.checks,
         "bracket": pair_value(s.bracket),
+        "certificate": certificate_value(s.certificate.as_ref()),
         "history": history_value(&s.history),
+        "historyDropped": s.history_dropped,
     })
 }
 
@@ -433,7 +455,7 @@ pub fn scalar_setup(request: &str) -> Result<(Start, Options), InputError> {
     f.only(&SCALAR_FIELDS)?;
     let start = read_start(&f)?;
     let options = read_options(&f, Some("bounds"))?;
-    crate::driver::validate(start, &options)?;
+    crate::methods::validate(start, &options)?;
     Ok((start, options))
 }
 
@@ -441,7 +463,7 @@ pub fn scalar_setup(request: &str) -> Result<(Start, Options), InputError> {
 /// counterpart of `solveFunction`).
 pub fn solve_function(request: &str, mut f: impl FnMut(f64) -> f64) -> Result<String, InputError> {
     let (start, options) = scalar_setup(request)?;
-    let solution = crate::driver::solve(start, &options, erase(&mut f))?;
+    let solution = crate::stepper::solve(start, &options, erase(&mut f))?;
     Ok(text_of(solution_value(&solution)))
 }
 
@@ -459,11 +481,11 @@ impl StepperSession {
     }
 
     pub fn restore(json: &str) -> Result<StepperSession, InputError> {
-        if json.len() > MAX_REQUEST_BYTES {
+        if json.len() > MAX_SAVED_STEPPER_BYTES {
             return Err(InputError::new(
                 "bad-saved-stepper",
                 format!(
-                    "saved stepper is {} bytes long; the limit is {MAX_REQUEST_BYTES}",
+                    "saved stepper is {} bytes long; the limit is {MAX_SAVED_STEPPER_BYTES}",
                     json.len()
                 ),
             ));
@@ -500,7 +522,7 @@ impl StepperSession {
 
     /// The history rows so far as a JSON list (empty unless history was asked for).
     pub fn history(&self) -> String {
-        text_of(history_value(self.stepper.history()))
+        text_of(history_value(&self.stepper.history().0))
     }
 
     pub fn save(&self) -> String {
@@ -715,7 +737,12 @@ pub fn set_solution_value(s: &SetSolution) -> Value {
         "evaluations": s.evaluations,
         "iterations": s.iterations,
         "bracket": pair_value(s.scalar.as_ref().and_then(|x| x.bracket)),
+        "certificate": certificate_value(match s.blocks.as_slice() {
+            [only] => only.certificate.as_ref(),
+            _ => None,
+        }),
         "history": history_value(s.scalar.as_ref().map_or(&[], |x| &x.history)),
+        "historyDropped": s.scalar.as_ref().map_or(0, |x| x.history_dropped),
         "systemHistory": system_history_value(s.system.as_ref().map_or(&[], |x| &x.history)),
         "definitions": named_values(&s.definitions),
         "sensitivities": Value::Array(s.sensitivities.iter().map(|d| json!({
@@ -732,6 +759,7 @@ pub fn set_solution_value(s: &SetSolution) -> Value {
             "status": b.status.code(),
             "evaluations": b.evaluations,
             "iterations": b.iterations,
+            "certificate": certificate_value(b.certificate.as_ref()),
         })).collect()),
     })
 }
@@ -840,7 +868,7 @@ pub fn sweep(request: &str) -> Result<String, InputError> {
         Some(g) => g,
         None => equations::default_guesses(options.bounds),
     };
-    crate::driver::validate(Start::Guesses(first.0, first.1), &options)?;
+    crate::methods::validate(Start::Guesses(first.0, first.1), &options)?;
     knowns.push((input.to_string(), from));
     let slot = knowns.len() - 1;
 
@@ -862,7 +890,7 @@ pub fn sweep(request: &str) -> Result<String, InputError> {
         let (a, b) = last
             .and_then(|r| continuation_guesses(r, before, options.bounds))
             .unwrap_or(first);
-        let s = crate::driver::solve(Start::Guesses(a, b), &options, erase(&mut residual))
+        let s = crate::stepper::solve(Start::Guesses(a, b), &options, erase(&mut residual))
             .map_err(|e| InputError {
                 message: format!("at {input} = {value}: {}", e.message),
                 ..e
@@ -925,7 +953,9 @@ fn range_roots_value(r: &RangeRoots) -> Value {
             "fx": num(root.fx),
             "kind": root.kind.code(),
             "converged": root.converged,
+            "certificate": certificate_value(root.certificate.as_ref()),
         })).collect()),
+        "discontinuities": Value::Array(r.discontinuities.iter().map(|&b| pair_value(Some(b))).collect()),
         "evaluations": r.evaluations,
         "samples": r.samples,
         "spacing": num(r.spacing),
@@ -980,7 +1010,9 @@ pub fn system_solution_value(s: &broyden::SystemSolution) -> Value {
         "message": s.status.diagnosis(),
         "evaluations": s.evaluations,
         "iterations": s.iterations,
+        "certificate": certificate_value(s.certificate.as_ref()),
         "history": system_rows(s.history.iter().map(|r| (r.k, r.x.as_slice(), r.residual_norm, r.kind))),
+        "historyDropped": s.history_dropped,
     })
 }
 

@@ -28,6 +28,38 @@ extern "C" {
 
 thread_local! {
     static LAST_PANIC: RefCell<Option<String>> = const { RefCell::new(None) };
+    /// Solves running now, one inside another's callback when above 1.
+    static DEPTH: std::cell::Cell<usize> = const { std::cell::Cell::new(0) };
+}
+
+/// Solves that may run one inside another's callback (a callback that itself starts a
+/// solve). Each level holds Rust frames on the wasm stack, which would overflow (a trap
+/// that kills the instance) at about a thousand levels.
+pub const MAX_NESTING: usize = 32;
+
+/// Counts a solve that calls back into JavaScript for as long as it runs.
+struct Nesting;
+
+impl Nesting {
+    fn enter() -> Result<Nesting, JsValue> {
+        let depth = DEPTH.with(|d| d.get());
+        if depth >= MAX_NESTING {
+            return Err(to_js(InputError::new(
+                "nesting-too-deep",
+                format!(
+                    "solves nested {MAX_NESTING} deep (a callback that starts a solve, whose callback starts another…); at most {MAX_NESTING} levels are allowed"
+                ),
+            )));
+        }
+        DEPTH.with(|d| d.set(depth + 1));
+        Ok(Nesting)
+    }
+}
+
+impl Drop for Nesting {
+    fn drop(&mut self) {
+        DEPTH.with(|d| d.set(d.get().saturating_sub(1)));
+    }
 }
 
 #[wasm_bindgen(start)]
@@ -116,6 +148,14 @@ enum CallbackFailure {
 fn callback_error(failure: CallbackFailure) -> JsValue {
     match failure {
         CallbackFailure::Threw(thrown) => {
+            // A nested solve that was refused for its depth: pass that error on as it
+            // is, so the outermost caller learns why.
+            let code = Reflect::get(&thrown, &JsValue::from_str("code"))
+                .ok()
+                .and_then(|c| c.as_string());
+            if code.as_deref() == Some("nesting-too-deep") {
+                return thrown;
+            }
             let detail = thrown
                 .dyn_ref::<js_sys::Error>()
                 .and_then(|e| e.message().as_string())
@@ -175,6 +215,7 @@ pub fn check_equation(text: JsValue) -> Result<String, JsValue> {
 /// adapts plain arrays). After the first failed call F is not called again.
 #[wasm_bindgen(js_name = solveSystemFunction)]
 pub fn solve_system_function(f: JsValue, request: JsValue) -> Result<String, JsValue> {
+    let _nesting = Nesting::enter()?;
     let f = function_arg(f, "F")?;
     let request = string_arg(&request, "the options (a JSON string)")?;
     let mut failure: Option<CallbackFailure> = None;
@@ -215,6 +256,7 @@ pub fn solve_system_function(f: JsValue, request: JsValue) -> Result<String, JsV
 /// call f is not called again.
 #[wasm_bindgen(js_name = findRootsFunction)]
 pub fn find_roots_function(f: JsValue, request: JsValue) -> Result<String, JsValue> {
+    let _nesting = Nesting::enter()?;
     let f = function_arg(f, "f")?;
     let request = string_arg(&request, "the request (a JSON string)")?;
     let mut failure: Option<CallbackFailure> = None;

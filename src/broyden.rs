@@ -1,8 +1,9 @@
 //! Systems of n equations in n unknowns: Broyden's method, the secant method in n
 //! dimensions.
 
+use crate::certificate::{Certificate, CertificateKind, REFERENCE_SPAN};
 use crate::error::{require_finite, InputError};
-use crate::outcome::{Status, StepKind};
+use crate::outcome::{BoundedLog, Status, StepKind};
 use crate::tolerances::{Bounds, Tolerances};
 
 /// Largest system accepted (dense n × n Jacobian).
@@ -11,6 +12,29 @@ pub const MAX_UNKNOWNS: usize = 500;
 const MAX_BACKTRACKS: usize = 10;
 /// Sufficient decrease of ½‖F‖² along the step (Armijo constant, Dennis & Schnabel §6.3).
 const ARMIJO: f64 = 1e-4;
+/// Rows of system history kept from the start and from the end of a long solve.
+pub const HISTORY_HEAD: usize = 200;
+pub const HISTORY_TAIL: usize = 800;
+/// Recent points remembered to refuse evaluating one twice.
+const RECENT: usize = 64;
+/// Accepted iterates remembered for the certificate.
+const ITERATES: usize = 32;
+
+/// The budget of a system of n unknowns when the caller left the default of 200: the
+/// first Jacobian alone takes n + 1 evaluations, so the default grows with n.
+pub fn default_budget(n: usize) -> usize {
+    200 + 4 * (n + 1)
+}
+
+/// The budget to use: [`default_budget`] when `tol.max_evals` is the default, else
+/// what the caller set.
+pub fn budget(tol: &Tolerances, n: usize) -> usize {
+    if tol.max_evals == Tolerances::default().max_evals {
+        default_budget(n).min(crate::tolerances::MAX_EVALS)
+    } else {
+        tol.max_evals
+    }
+}
 
 /// How to solve a system. The default: default tolerances, unbounded, no history.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -51,8 +75,15 @@ pub struct SystemSolution {
     pub evaluations: usize,
     /// Accepted steps.
     pub iterations: usize,
-    /// Empty unless requested.
+    /// The evidence for convergence, `Some` exactly when `converged`. For a system the
+    /// residual is max |F_i|, `width` the last step (largest component), and
+    /// `reference` holds (distance to the reference iterate, max |F_i| there).
+    pub certificate: Option<Certificate>,
+    /// Empty unless requested; long solves keep the first [`HISTORY_HEAD`] and the
+    /// last [`HISTORY_TAIL`] rows.
     pub history: Vec<SystemHistoryRow>,
+    /// Rows left out of `history` between the two.
+    pub history_dropped: usize,
 }
 
 /// Solves F(x) = 0 for n equations in n unknowns, with `f(x, out)` writing F(x) into
@@ -65,7 +96,11 @@ pub struct SystemSolution {
 ///    larger of |x_j| and its starting |x_j| (else the largest |x_k| of any unknown,
 ///    else 1), so an unknown passing near zero keeps a usable step. √eps balances
 ///    truncation against rounding error for a forward difference (Dennis & Schnabel
-///    §5.4, with typ_j in place of their typx).
+///    §5.4, with typ_j in place of their typx). When F does not change at all over
+///    that step (an unknown started at 1e-20 or at a subnormal value in an equation
+///    whose scale is 1), the step becomes √eps·max(1, largest |x_k|), their default
+///    typx = 1; when the change is still within rounding noise (below 1000·eps·|F|), it
+///    grows a thousandfold, at most twice.
 /// 2. Solve B s = −F by Gaussian elimination with partial pivoting.
 /// 3. Try x + λs with λ = 1, projected into the bounds. Accept it when
 ///    ½‖F(x + λs)‖² <= (1 − 2·1e-4·λ)·½‖F(x)‖²; otherwise halve λ, up to ten times
@@ -77,7 +112,12 @@ pub struct SystemSolution {
 ///
 /// Stops: converged on residual when max |F_i| <= f_abs, exact zero when F = 0, on step
 /// when a full step (λ = 1) that did not increase ‖F‖ is within `x_abs + x_rel·typ_i` in
-/// every unknown (typ_i as for the Jacobian, so an unknown whose root is 0 still stops). Otherwise: [`Status::BudgetSpent`], [`Status::Flat`] (singular Jacobian
+/// every unknown (typ_i as for the Jacobian, so an unknown whose root is 0 still stops)
+/// *and* the residual shrank with the steps: max |F| ≤ 4·max |F(x_ref)|·(s/d), with s
+/// the last step and x_ref the nearest remembered iterate at least 64 steps away (d),
+/// else the start (the scalar step certificate, [`crate::certificate`]); a small step
+/// whose residual did not shrink ends as [`Status::LargeResidual`]. The default
+/// budget grows with n ([`budget`]). Otherwise: [`Status::BudgetSpent`], [`Status::Flat`] (singular Jacobian
 /// even from fresh differences), [`Status::Stagnated`] (no decrease of ‖F‖ along the
 /// step even with a fresh Jacobian), [`Status::NonFinite`] (F not finite at the start,
 /// or wherever the search looked), [`Status::StuckAtBound`] (the bounds cut the step to
@@ -154,15 +194,19 @@ pub fn solve_system(
             ));
         }
     }
+    let mut tol = options.tol;
+    tol.max_evals = budget(&options.tol, n);
     let mut run = Run {
         n,
         f,
-        tol: options.tol,
+        tol,
         bounds,
         record: options.record_history,
         evaluations: 0,
-        history: Vec::new(),
-        seen: Vec::new(),
+        history: BoundedLog::new(HISTORY_HEAD, HISTORY_TAIL),
+        recent: Vec::new(),
+        next_recent: 0,
+        iterates: Vec::new(),
         x0: x0.to_vec(),
     };
     Ok(run.solve(x0))
@@ -175,9 +219,13 @@ struct Run<F> {
     bounds: Vec<Bounds>,
     record: bool,
     evaluations: usize,
-    history: Vec<SystemHistoryRow>,
-    /// Every evaluated point, to refuse repeats.
-    seen: Vec<Vec<f64>>,
+    history: BoundedLog<SystemHistoryRow>,
+    /// The latest evaluated points (a ring of [`RECENT`]), to refuse repeats: the
+    /// Jacobian probes and line-search points that could repeat are all recent.
+    recent: Vec<Vec<f64>>,
+    next_recent: usize,
+    /// Accepted iterates (x, max |F|), a ring of [`ITERATES`], for the certificate.
+    iterates: Vec<(Vec<f64>, f64)>,
     x0: Vec<f64>,
 }
 
@@ -222,7 +270,7 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
     }
 
     fn eval(&mut self, x: &[f64], kind: StepKind) -> Eval {
-        if self.seen.iter().any(|p| p.as_slice() == x) {
+        if self.recent.iter().any(|p| p.as_slice() == x) {
             return Eval::Repeat;
         }
         if self.evaluations >= self.tol.max_evals {
@@ -231,7 +279,12 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
         let mut out = vec![f64::NAN; self.n];
         (self.f)(x, &mut out);
         self.evaluations += 1;
-        self.seen.push(x.to_vec());
+        if self.recent.len() < RECENT {
+            self.recent.push(x.to_vec());
+        } else {
+            self.recent[self.next_recent] = x.to_vec();
+            self.next_recent = (self.next_recent + 1) % RECENT;
+        }
         if self.record {
             self.history.push(SystemHistoryRow {
                 k: self.evaluations,
@@ -250,14 +303,105 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
         fx: Vec<f64>,
         iterations: usize,
     ) -> SystemSolution {
+        self.finish_certified(status, None, x, fx, iterations)
+    }
+
+    fn finish_certified(
+        &mut self,
+        status: Status,
+        certificate: Option<Certificate>,
+        x: Vec<f64>,
+        fx: Vec<f64>,
+        iterations: usize,
+    ) -> SystemSolution {
+        let history = std::mem::replace(&mut self.history, BoundedLog::new(0, 0));
+        let (history, history_dropped) = history.into_parts();
         SystemSolution {
             x,
             residuals: fx,
-            converged: status.is_converged(),
+            converged: certificate.is_some(),
             status,
             evaluations: self.evaluations,
             iterations,
-            history: std::mem::take(&mut self.history),
+            certificate,
+            history,
+            history_dropped,
+        }
+    }
+
+    /// Ends on a claim of convergence, granted only with its certificate.
+    fn claim(
+        &mut self,
+        status: Status,
+        step: f64,
+        x: Vec<f64>,
+        fx: Vec<f64>,
+        iterations: usize,
+    ) -> SystemSolution {
+        let m = fx.iter().fold(0.0f64, |a, v| a.max(v.abs()));
+        let certificate = match status {
+            Status::ExactZero => Some(Certificate {
+                kind: CertificateKind::ExactZero,
+                residual: 0.0,
+                bound: 0.0,
+                bracket: None,
+                width: 0.0,
+                reference: None,
+            }),
+            Status::ConvergedResidual => (m <= self.tol.f_abs).then_some(Certificate {
+                kind: CertificateKind::Residual,
+                residual: m,
+                bound: self.tol.f_abs,
+                bracket: None,
+                width: 0.0,
+                reference: None,
+            }),
+            _ => {
+                let dist = |p: &[f64]| {
+                    p.iter()
+                        .zip(&x)
+                        .fold(0.0f64, |a, (u, v)| a.max((u - v).abs()))
+                };
+                let far = self
+                    .iterates
+                    .iter()
+                    .map(|(p, fp)| (dist(p), *fp))
+                    .filter(|&(d, fp)| d >= REFERENCE_SPAN * step && fp.is_finite())
+                    .min_by(|a, b| a.0.total_cmp(&b.0));
+                let reference = far.or_else(|| {
+                    let start = self.iterates.first()?;
+                    let d = dist(&start.0);
+                    (d >= 2.0 * step).then_some((d, start.1))
+                });
+                reference.and_then(|(d, fr)| {
+                    let bound = 4.0 * fr * (step / d);
+                    (m <= bound).then_some(Certificate {
+                        kind: CertificateKind::Step,
+                        residual: m,
+                        bound,
+                        bracket: None,
+                        width: step,
+                        reference: Some((d, fr)),
+                    })
+                })
+            }
+        };
+        let status = if certificate.is_some() {
+            status
+        } else {
+            Status::LargeResidual
+        };
+        self.finish_certified(status, certificate, x, fx, iterations)
+    }
+
+    fn remember(&mut self, x: &[f64], fx: &[f64]) {
+        let m = fx.iter().fold(0.0f64, |a, v| a.max(v.abs()));
+        if self.iterates.len() < ITERATES {
+            self.iterates.push((x.to_vec(), m));
+        } else {
+            // Keep the start; rotate the rest.
+            self.iterates.remove(1);
+            self.iterates.push((x.to_vec(), m));
         }
     }
 
@@ -266,12 +410,15 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
     fn jacobian(&mut self, x: &[f64], fx: &[f64]) -> Result<Vec<f64>, Status> {
         let n = self.n;
         let mut jac = vec![0.0; n * n];
+        let f_scale = fx.iter().fold(0.0f64, |a, v| a.max(v.abs()));
+        let noise = 1e3 * f64::EPSILON * f_scale;
+        let unit_step =
+            f64::EPSILON.sqrt() * x.iter().chain(&self.x0).fold(1.0f64, |a, v| a.max(v.abs()));
         for j in 0..n {
-            let typical = self.typical(x, j);
-            let base = f64::EPSILON.sqrt() * typical;
+            let mut h = (f64::EPSILON.sqrt() * self.typical(x, j)).max(f64::MIN_POSITIVE);
             let mut done = false;
-            for attempt in 0..4 {
-                let h = base * [1.0, 1.5, 2.5, 4.0][attempt];
+            let mut grown = 0;
+            for _attempt in 0..8 {
                 let b = self.bounds[j];
                 let mut xp = x.to_vec();
                 xp[j] = if b.contains(x[j] + h) {
@@ -279,16 +426,40 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
                 } else {
                     x[j] - h
                 };
-                if !b.contains(xp[j]) || xp[j] == x[j] {
+                if !b.contains(xp[j]) {
                     return Err(Status::StuckAtBound);
+                }
+                if xp[j] == x[j] {
+                    // Below the spacing of floats at x_j: take the unit-scale step.
+                    if h >= unit_step {
+                        return Err(Status::StuckAtBound);
+                    }
+                    h = unit_step;
+                    continue;
                 }
                 let step = xp[j] - x[j];
                 match self.eval(&xp, StepKind::Probe) {
                     Eval::Budget => return Err(Status::BudgetSpent),
-                    Eval::Repeat => continue,
+                    Eval::Repeat => {
+                        h *= 1.5;
+                        continue;
+                    }
                     Eval::Done(fp) => {
                         if fp.iter().any(|v| !v.is_finite()) {
                             return Err(Status::NonFinite);
+                        }
+                        let change = fp
+                            .iter()
+                            .zip(fx)
+                            .fold(0.0f64, |a, (p, q)| a.max((p - q).abs()));
+                        if change == 0.0 && h < unit_step {
+                            h = unit_step;
+                            continue;
+                        }
+                        if change > 0.0 && change <= noise && grown < 2 {
+                            grown += 1;
+                            h *= 1e3;
+                            continue;
                         }
                         for i in 0..n {
                             jac[i * n + j] = (fp[i] - fx[i]) / step;
@@ -315,6 +486,7 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
         if fx.iter().any(|v| !v.is_finite()) {
             return self.finish(Status::NonFinite, x, fx, 0);
         }
+        self.remember(&x, &fx);
         let mut iterations = 0usize;
         let mut jac = match self.jacobian(&x, &fx) {
             Ok(j) => j,
@@ -323,10 +495,10 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
         let mut fresh = true;
         loop {
             if fx.iter().all(|&v| v == 0.0) {
-                return self.finish(Status::ExactZero, x, fx, iterations);
+                return self.claim(Status::ExactZero, 0.0, x, fx, iterations);
             }
             if fx.iter().all(|v| v.abs() <= self.tol.f_abs) {
-                return self.finish(Status::ConvergedResidual, x, fx, iterations);
+                return self.claim(Status::ConvergedResidual, 0.0, x, fx, iterations);
             }
             let rhs: Vec<f64> = fx.iter().map(|v| -v).collect();
             let Some(step) = solve_dense(&jac, &rhs, n) else {
@@ -394,7 +566,17 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
                     }
                     if blocked_at == Some(0) && iterations > 0 {
                         // The full step no longer changes x in floating point.
-                        return self.finish(Status::ConvergedStep, x, fx, iterations);
+                        let s_max = step.iter().fold(0.0f64, |a, v| a.max(v.abs()));
+                        let ulp = x.iter().fold(f64::MIN_POSITIVE, |a, v| {
+                            a.max(4.0 * f64::EPSILON * v.abs())
+                        });
+                        return self.claim(
+                            Status::ConvergedStep,
+                            s_max.max(ulp),
+                            x,
+                            fx,
+                            iterations,
+                        );
                     }
                 }
                 if fresh {
@@ -433,10 +615,12 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
             fx = fxn;
             if small_step && full {
                 if fx.iter().all(|&v| v == 0.0) {
-                    return self.finish(Status::ExactZero, x, fx, iterations);
+                    return self.claim(Status::ExactZero, 0.0, x, fx, iterations);
                 }
-                return self.finish(Status::ConvergedStep, x, fx, iterations);
+                let s_max = s.iter().fold(0.0f64, |a, v| a.max(v.abs()));
+                return self.claim(Status::ConvergedStep, s_max, x, fx, iterations);
             }
+            self.remember(&x, &fx);
         }
     }
 }

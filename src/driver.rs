@@ -3,18 +3,20 @@
 //! A method is a small state machine ([`ScalarMethod`]): it is told the value at the
 //! point it last asked for and answers with the next point to evaluate, or that it is
 //! done. Everything else happens here, once: counting evaluations, the budget, keeping
-//! the (opt-in) history, holding the unknown inside its bounds, refusing non-finite
-//! points, and tracking the best point seen.
+//! the (opt-in, bounded) history, holding the unknown inside its bounds, tracking the
+//! best point seen, and **checking every claim of convergence** against the evidence
+//! ([`crate::certificate`]): a method may claim, only the driver certifies.
 //!
-//! Because methods never call f themselves, the same code serves a Rust closure
-//! ([`solve`]) and an ask–tell [`Stepper`] whose values arrive from outside, perhaps days
-//! apart. A stepper is saved as its set-up plus the values told so far; restoring replays
-//! those values through a fresh method, which is deterministic, so nothing is evaluated
-//! again and a tampered record is detected when the replay asks for a different point.
+//! Because methods never call f themselves, the same code serves a Rust closure, an
+//! ask–tell [`crate::Stepper`] whose values arrive from outside (perhaps days apart),
+//! and the range scan. The driver knows no method by name: [`crate::methods`] builds
+//! them and hands them over, so the arrows point one way.
 
-use crate::error::{require_finite, InputError};
-use crate::methods;
-use crate::outcome::{HistoryRow, Solution, Status, StepKind};
+use crate::certificate::{assess, Claim, Evidence, Verdict};
+use crate::error::InputError;
+use crate::outcome::{
+    BoundedLog, HistoryRow, Solution, Status, StepKind, HISTORY_HEAD, HISTORY_TAIL,
+};
 use crate::tolerances::{Bounds, Tolerances};
 
 /// What a method wants next.
@@ -34,6 +36,8 @@ pub struct Finish {
     /// f at `residual_at` (equal to `root` unless the method returns an unevaluated estimate).
     pub residual: f64,
     pub residual_at: f64,
+    /// The last step of an open method that claims convergence on it (NaN otherwise).
+    pub step: f64,
 }
 
 impl Finish {
@@ -44,6 +48,18 @@ impl Finish {
             root: x,
             residual: fx,
             residual_at: x,
+            step: f64::NAN,
+        })
+    }
+
+    /// Ends at an evaluated point after a last step of length `step`.
+    pub fn stepped(status: Status, x: f64, fx: f64, step: f64) -> Ask {
+        Ask::Done(Finish {
+            status,
+            root: x,
+            residual: fx,
+            residual_at: x,
+            step,
         })
     }
 }
@@ -65,199 +81,97 @@ pub struct Context {
 ///   its value, which may be NaN or infinite.
 /// - Never ask for a point already evaluated: carry values forward.
 /// - Ask only for points inside `ctx.bounds`.
+/// - A claim of convergence is checked by the driver; report the final bracket through
+///   [`ScalarMethod::bracket`] and, for an open method, the last step in [`Finish`].
 pub trait ScalarMethod {
     fn step(&mut self, told: Option<(f64, f64)>, ctx: &Context) -> Ask;
-    /// The bracket currently known, if a sign change has been seen.
+    /// The bracket currently known: ends whose values are of opposite sign (either may
+    /// be infinite, neither NaN), if a sign change has been seen.
     fn bracket(&self) -> Option<(f64, f64)>;
     /// Iterations completed so far.
     fn iterations(&self) -> usize;
 }
 
-/// The methods a caller can choose.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
-pub enum MethodKind {
-    /// The default: secant steps while they make progress, the bracketing hybrid once a
-    /// sign change is seen, an outward bracket search when none is.
-    Auto,
-    /// The classic secant method, exactly as in the textbooks.
-    Secant,
-    /// The bracketing hybrid that cannot diverge; needs a sign change.
-    Hybrid,
-    Bisection,
-    /// Illinois false position.
-    Illinois,
-}
-
-impl MethodKind {
-    pub const ALL: [MethodKind; 5] = [
-        MethodKind::Auto,
-        MethodKind::Secant,
-        MethodKind::Hybrid,
-        MethodKind::Bisection,
-        MethodKind::Illinois,
-    ];
-
-    pub fn code(self) -> &'static str {
-        match self {
-            MethodKind::Auto => "auto",
-            MethodKind::Secant => "secant",
-            MethodKind::Hybrid => "hybrid",
-            MethodKind::Bisection => "bisection",
-            MethodKind::Illinois => "illinois",
-        }
-    }
-
-    pub fn from_code(code: &str) -> Result<MethodKind, InputError> {
-        MethodKind::ALL
-            .into_iter()
-            .find(|m| m.code() == code)
-            .ok_or_else(|| {
-                InputError::new(
-                    "unknown-method",
-                    format!(
-                        "unknown method \"{code}\"; choose one of auto, secant, hybrid, bisection, illinois"
-                    ),
-                )
-            })
-    }
-}
-
-/// Where a solve starts: two guesses (no sign change needed) or a bracket.
+/// How the driver runs, besides the method.
 #[derive(Debug, Clone, Copy, PartialEq)]
-pub enum Start {
-    Guesses(f64, f64),
-    Bracket(f64, f64),
-}
-
-impl Start {
-    pub fn points(self) -> (f64, f64) {
-        match self {
-            Start::Guesses(a, b) | Start::Bracket(a, b) => (a, b),
-        }
-    }
-}
-
-/// Everything that configures a scalar solve besides f.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub struct Options {
-    pub method: MethodKind,
+pub struct Settings {
     pub tol: Tolerances,
     pub bounds: Bounds,
-    /// Keep one [`HistoryRow`] per evaluation. Off by default; costs nothing when off.
+    /// Keep [`HistoryRow`]s (bounded: see [`crate::outcome::HISTORY_HEAD`]).
     pub record_history: bool,
+    /// Keep every told (x, f(x)) for a saved record ([`Driver::told`]); memory grows
+    /// with the budget, which [`Tolerances::validate`] caps.
+    pub keep_told: bool,
 }
 
-impl Default for Options {
-    fn default() -> Self {
-        Options {
-            method: MethodKind::Auto,
-            tol: Tolerances::default(),
-            bounds: Bounds::UNBOUNDED,
-            record_history: false,
-        }
-    }
+/// A claim of convergence being checked with extra evaluations.
+#[derive(Debug, Clone, Copy)]
+struct Checking {
+    claim: Claim,
+    finish: Finish,
+    checks: usize,
 }
 
-impl Options {
-    pub fn with_history(mut self) -> Self {
-        self.record_history = true;
-        self
-    }
-}
-
-/// Checks the set-up and names the first bad value.
-pub fn validate(start: Start, options: &Options) -> Result<(), InputError> {
-    options.tol.validate()?;
-    options.bounds.validate()?;
-    let (a, b) = start.points();
-    let (wa, wb) = match start {
-        Start::Guesses(..) => ("first guess", "second guess"),
-        Start::Bracket(..) => ("bracket lower end", "bracket upper end"),
-    };
-    require_finite(a, wa)?;
-    require_finite(b, wb)?;
-    if a == b {
-        return Err(InputError::new(
-            "equal-guesses",
-            format!("the two starting points must differ, but {wa} and {wb} are both {a}"),
-        ));
-    }
-    for (w, v) in [(wa, a), (wb, b)] {
-        if !options.bounds.contains(v) {
-            return Err(InputError::new(
-                "start-outside-bounds",
-                format!(
-                    "{w} {v} lies outside the bounds [{}, {}] of the unknown",
-                    options.bounds.lo, options.bounds.hi
-                ),
-            ));
-        }
-    }
-    Ok(())
-}
-
-/// Solves f(x) = 0 with a Rust closure. The driver calls f exactly
-/// `solution.evaluations` times.
-///
-/// ```
-/// use tacit::{solve, Options, Start};
-/// let s = solve(Start::Guesses(1.0, 2.0), &Options::default(), |x| x * x - 2.0).unwrap();
-/// assert!(s.converged);
-/// assert!((s.root - 2f64.sqrt()).abs() < 1e-12);
-/// ```
-pub fn solve(
-    start: Start,
-    options: &Options,
-    mut f: impl FnMut(f64) -> f64,
-) -> Result<Solution, InputError> {
-    let mut stepper = Stepper::new(start, options)?;
-    while let Some(x) = stepper.next_point() {
-        let fx = f(x);
-        stepper.tell(fx)?;
-    }
-    Ok(stepper.into_solution())
-}
-
-/// An ask–tell driver: [`Stepper::next_point`] says where to evaluate, [`Stepper::tell`]
-/// records the value. [`solve`] is a loop over it.
-pub struct Stepper {
-    start: Start,
-    options: Options,
+/// The loop state: ask for a point, take its value, until the method is done and its
+/// claim is judged.
+pub struct Driver {
+    settings: Settings,
     method: Box<dyn ScalarMethod>,
     pending: Option<(f64, StepKind)>,
     evaluations: usize,
-    /// Every told (x, f(x)), in order: the record that [`Stepper::save`] writes.
     told: Vec<(f64, f64)>,
-    history: Vec<HistoryRow>,
+    evidence: Evidence,
+    history: BoundedLog<HistoryRow>,
+    last_x: Option<f64>,
     best: Option<(f64, f64)>,
+    /// Whether f was evaluated at each bound (the only points clamping can produce).
+    lo_evaluated: bool,
+    hi_evaluated: bool,
+    checking: Option<Checking>,
+    /// Checking evaluations made so far.
+    checks: usize,
     finished: Option<Solution>,
 }
 
-impl Stepper {
-    pub fn new(start: Start, options: &Options) -> Result<Stepper, InputError> {
-        validate(start, options)?;
-        let method = methods::build(options.method, start, options);
-        let mut stepper = Stepper {
-            start,
-            options: *options,
+impl Driver {
+    /// Starts `method`. `known` are points evaluated before (by a scan, say): they count
+    /// as evidence for the certificate but not as evaluations of this solve.
+    pub fn new(method: Box<dyn ScalarMethod>, settings: Settings, known: &[(f64, f64)]) -> Driver {
+        let mut evidence = Evidence::new();
+        for &(x, fx) in known {
+            evidence.push(x, fx);
+        }
+        let mut driver = Driver {
+            settings,
             method,
             pending: None,
             evaluations: 0,
             told: Vec::new(),
-            history: Vec::new(),
+            evidence,
+            history: BoundedLog::new(HISTORY_HEAD, HISTORY_TAIL),
+            last_x: None,
             best: None,
+            lo_evaluated: false,
+            hi_evaluated: false,
+            checking: None,
+            checks: 0,
             finished: None,
         };
-        stepper.advance(None);
-        Ok(stepper)
+        let ask = driver.method.step(None, &driver.context());
+        driver.act(ask);
+        driver
     }
 
-    pub fn options(&self) -> &Options {
-        &self.options
+    pub fn settings(&self) -> &Settings {
+        &self.settings
     }
 
-    pub fn start(&self) -> Start {
-        self.start
+    fn context(&self) -> Context {
+        Context {
+            tol: self.settings.tol,
+            bounds: self.settings.bounds,
+            evaluations: self.evaluations,
+        }
     }
 
     /// The point to evaluate next, or `None` when the solve is finished.
@@ -278,7 +192,7 @@ impl Stepper {
         self.evaluations
     }
 
-    /// Every (x, f(x)) told so far, in order.
+    /// Every (x, f(x)) told so far, in order (empty unless `keep_told`).
     pub fn told(&self) -> &[(f64, f64)] {
         &self.told
     }
@@ -293,12 +207,17 @@ impl Stepper {
             ));
         };
         self.evaluations += 1;
-        self.told.push((x, fx));
+        if self.settings.keep_told {
+            self.told.push((x, fx));
+        }
+        self.evidence.push(x, fx);
+        self.lo_evaluated |= x == self.settings.bounds.lo;
+        self.hi_evaluated |= x == self.settings.bounds.hi;
         if fx.is_finite() && self.best.is_none_or(|(_, fb)| fx.abs() < fb.abs()) {
             self.best = Some((x, fx));
         }
-        if self.options.record_history {
-            let step = self.history.last().map_or(f64::NAN, |r| x - r.x);
+        if self.settings.record_history {
+            let step = self.last_x.map_or(f64::NAN, |p| x - p);
             self.history.push(HistoryRow {
                 k: self.evaluations,
                 x,
@@ -308,32 +227,36 @@ impl Stepper {
                 kind,
             });
         }
-        self.advance(Some((x, fx)));
+        self.last_x = Some(x);
+        if let Some(checking) = self.checking.take() {
+            self.continue_check(checking, x, fx);
+            return Ok(());
+        }
+        let ask = self.method.step(Some((x, fx)), &self.context());
+        if self.settings.record_history {
+            let bracket = self.method.bracket();
+            if let Some(row) = self.history.last_mut() {
+                row.bracket = bracket;
+            }
+        }
+        self.act(ask);
         Ok(())
     }
 
-    fn advance(&mut self, told: Option<(f64, f64)>) {
-        let ctx = Context {
-            tol: self.options.tol,
-            bounds: self.options.bounds,
-            evaluations: self.evaluations,
-        };
-        let ask = self.method.step(told, &ctx);
-        if self.options.record_history {
-            if let Some(row) = self.history.last_mut() {
-                row.bracket = self.method.bracket();
-            }
-        }
+    fn act(&mut self, ask: Ask) {
         match ask {
-            Ask::Done(finish) => self.finish(finish),
+            Ask::Done(finish) => self.judge(finish, 0),
             Ask::Eval(x, kind) => {
                 if x.is_nan() {
                     self.finish_at_best(Status::NonFinite);
-                } else if self.evaluations >= self.options.tol.max_evals {
+                } else if self.evaluations >= self.settings.tol.max_evals {
                     self.finish_at_best(Status::BudgetSpent);
                 } else {
-                    let xc = self.options.bounds.clamp(x);
-                    if xc != x && self.told.iter().any(|&(t, _)| t == xc) {
+                    let b = self.settings.bounds;
+                    let xc = b.clamp(x);
+                    let repeat = xc != x
+                        && ((xc == b.lo && self.lo_evaluated) || (xc == b.hi && self.hi_evaluated));
+                    if repeat {
                         self.finish_at_best(Status::StuckAtBound);
                     } else {
                         self.pending = Some((xc, kind));
@@ -343,31 +266,161 @@ impl Stepper {
         }
     }
 
+    /// Judges a method's finish: claims of convergence need a certificate.
+    fn judge(&mut self, finish: Finish, checks: usize) {
+        let bracket = self.sign_change_bracket();
+        let claim = Claim {
+            status: finish.status,
+            root: finish.root,
+            at: finish.residual_at,
+            residual: finish.residual,
+            bracket,
+            step: finish.step,
+        };
+        self.decide(claim, finish, checks);
+    }
+
+    /// The method's bracket, if the values at its ends (when still in the evidence) are
+    /// non-zero and of opposite signs: an end where f is exactly zero is not a sign.
+    fn sign_change_bracket(&self) -> Option<(f64, f64)> {
+        let (lo, hi) = self.method.bracket()?;
+        let signed = |x: f64| {
+            self.evidence
+                .lookup(x)
+                .is_none_or(|f| f != 0.0 && !f.is_nan())
+        };
+        (signed(lo) && signed(hi)).then_some((lo, hi))
+    }
+
+    fn decide(&mut self, claim: Claim, finish: Finish, checks: usize) {
+        if !claim.status.is_converged() {
+            // A sign change was seen: the solve must not end as if none had been.
+            let status = match (claim.status, claim.bracket) {
+                (Status::NonFinite | Status::NoSignChange, Some(_)) => Status::Discontinuity,
+                (s, _) => s,
+            };
+            self.finish(status, finish, claim.bracket, None);
+            return;
+        }
+        match assess(&claim, &self.evidence, &self.settings.tol, checks) {
+            Verdict::Certified(certificate) => {
+                self.finish(claim.status, finish, claim.bracket, Some(certificate))
+            }
+            Verdict::Refused(status) => self.finish(status, finish, claim.bracket, None),
+            Verdict::Probe(x, kind) => {
+                let b = self.settings.bounds;
+                let usable = b.contains(x) && self.evidence.lookup(x).is_none() && x.is_finite();
+                if !usable {
+                    let status = if claim.bracket.is_some() {
+                        Status::Discontinuity
+                    } else if claim.status == Status::ExactZero {
+                        Status::ZeroPlateau
+                    } else {
+                        Status::LargeResidual
+                    };
+                    self.finish(status, finish, claim.bracket, None);
+                } else if self.evaluations >= self.settings.tol.max_evals {
+                    self.finish(Status::BudgetSpent, finish, claim.bracket, None);
+                } else {
+                    self.checking = Some(Checking {
+                        claim,
+                        finish,
+                        checks: checks + 1,
+                    });
+                    self.checks += 1;
+                    self.pending = Some((x, kind));
+                }
+            }
+        }
+    }
+
+    /// A checking evaluation arrived: update the claim (a bracket is halved) and judge
+    /// it again.
+    fn continue_check(&mut self, checking: Checking, x: f64, fx: f64) {
+        let Checking {
+            mut claim,
+            mut finish,
+            checks,
+        } = checking;
+        if let Some((lo, hi)) = claim.bracket {
+            if x > lo && x < hi {
+                let flo = self.evidence.lookup(lo).unwrap_or(f64::NAN);
+                let fhi = self.evidence.lookup(hi).unwrap_or(f64::NAN);
+                if fx.is_nan() || flo.is_nan() || fhi.is_nan() {
+                    self.finish(Status::Discontinuity, finish, claim.bracket, None);
+                    return;
+                }
+                if fx == 0.0 {
+                    claim.status = Status::ExactZero;
+                    claim.root = x;
+                    claim.at = x;
+                    claim.residual = 0.0;
+                    finish.root = x;
+                    finish.residual = 0.0;
+                    finish.residual_at = x;
+                } else {
+                    let (a, fa, b, fb) = if (fx < 0.0) == (flo < 0.0) {
+                        (x, fx, hi, fhi)
+                    } else {
+                        (lo, flo, x, fx)
+                    };
+                    claim.bracket = Some((a, b));
+                    let (u, fu) = if fa.abs() <= fb.abs() {
+                        (a, fa)
+                    } else {
+                        (b, fb)
+                    };
+                    claim.root = u;
+                    claim.at = u;
+                    claim.residual = fu;
+                    finish.root = u;
+                    finish.residual = fu;
+                    finish.residual_at = u;
+                }
+            }
+        }
+        self.decide(claim, finish, checks);
+    }
+
     fn finish_at_best(&mut self, status: Status) {
         let (x, fx) = self
             .best
-            .or_else(|| self.told.last().copied())
+            .or_else(|| self.evidence.points().last())
             .unwrap_or((f64::NAN, f64::NAN));
-        self.finish(Finish {
+        let finish = Finish {
             status,
             root: x,
             residual: fx,
             residual_at: x,
-        });
+            step: f64::NAN,
+        };
+        let bracket = self.sign_change_bracket();
+        self.finish(status, finish, bracket, None);
     }
 
-    fn finish(&mut self, finish: Finish) {
+    fn finish(
+        &mut self,
+        status: Status,
+        finish: Finish,
+        bracket: Option<(f64, f64)>,
+        certificate: Option<crate::certificate::Certificate>,
+    ) {
         self.pending = None;
+        let history = std::mem::replace(&mut self.history, BoundedLog::new(0, 0));
+        let (history, history_dropped) = history.into_parts();
         self.finished = Some(Solution {
             root: finish.root,
             residual: finish.residual,
             residual_at: finish.residual_at,
-            converged: finish.status.is_converged(),
-            status: finish.status,
+            converged: certificate.is_some(),
+            status,
             evaluations: self.evaluations,
             iterations: self.method.iterations(),
-            bracket: self.method.bracket(),
-            history: std::mem::take(&mut self.history),
+            checks: self.checks,
+            bracket,
+            certificate,
+            history,
+            history_dropped,
         });
     }
 
@@ -382,25 +435,30 @@ impl Stepper {
         if self.finished.is_none() {
             self.finish_at_best(Status::BudgetSpent);
         }
-        self.finished.take().expect("finished above")
+        self.finished.take().unwrap_or_else(|| Solution {
+            root: f64::NAN,
+            residual: f64::NAN,
+            residual_at: f64::NAN,
+            converged: false,
+            status: Status::BudgetSpent,
+            evaluations: 0,
+            iterations: 0,
+            checks: 0,
+            bracket: None,
+            certificate: None,
+            history: Vec::new(),
+            history_dropped: 0,
+        })
     }
 
-    /// The history recorded so far (empty unless requested).
-    pub fn history(&self) -> &[HistoryRow] {
+    /// The history recorded so far (empty unless requested), and the rows left out.
+    pub fn history(&self) -> (Vec<HistoryRow>, usize) {
         match &self.finished {
-            Some(s) => &s.history,
-            None => &self.history,
+            Some(s) => (s.history.clone(), s.history_dropped),
+            None => (
+                self.history.iter().copied().collect(),
+                self.history.dropped(),
+            ),
         }
-    }
-
-    /// The stepper as JSON: its set-up and the values told so far.
-    pub fn save(&self) -> String {
-        crate::stepper_record::save(self)
-    }
-
-    /// Rebuilds a stepper from [`Stepper::save`] output by replaying the told values.
-    /// Nothing is evaluated. A record that does not replay is an error.
-    pub fn restore(json: &str) -> Result<Stepper, InputError> {
-        crate::stepper_record::restore(json)
     }
 }

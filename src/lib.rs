@@ -1,8 +1,10 @@
 //! tacit: an offline solver for implicit design equations.
 //!
 //! The core is pure Rust with no JavaScript types and no I/O:
-//! - [`driver`]: the one driver loop ([`solve`], the ask–tell [`Stepper`]);
-//! - [`methods`]: the scalar methods as small state machines;
+//! - [`driver`]: the one driver loop, which also judges every claim of convergence;
+//! - [`certificate`]: the evidence a converged answer must carry;
+//! - [`methods`]: the scalar methods as small state machines, and the choice of one;
+//! - [`stepper`]: [`solve`] with a closure and the ask–tell [`Stepper`];
 //! - [`outcome`]: the result type and honest statuses;
 //! - [`tolerances`]: tolerances, budget and bounds.
 //!
@@ -12,18 +14,22 @@ pub mod api;
 #[cfg(target_arch = "wasm32")]
 pub mod bindings;
 pub mod broyden;
+pub mod certificate;
 pub mod driver;
 pub mod equations;
 pub mod error;
 pub mod methods;
 pub mod outcome;
 pub mod roots_in_range;
+pub mod stepper;
 mod stepper_record;
 pub mod templates;
 pub mod tolerances;
 pub mod units;
 
-pub use driver::{solve, MethodKind, Options, Start, Stepper};
+pub use certificate::{Certificate, CertificateKind};
 pub use error::InputError;
+pub use methods::{MethodKind, Options, Start};
 pub use outcome::{HistoryRow, Solution, Status, StepKind};
+pub use stepper::{solve, Stepper};
 pub use tolerances::{Bounds, Tolerances};

@@ -1,6 +1,9 @@
 //! The one result type shared by every scalar method, with honest statuses.
 
-/// How a solve ended. Only the first three mean the root can be trusted.
+use crate::certificate::Certificate;
+
+/// How a solve ended. Only the first three mean the root can be trusted, and only
+/// with the [`Certificate`] the driver attaches to them.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
 pub enum Status {
     /// The last step (or the final bracket) is within the step tolerance.
@@ -25,10 +28,18 @@ pub enum Status {
     NonFinite,
     /// The method kept pushing against a bound of the unknown.
     StuckAtBound,
+    /// f changes sign across the final bracket, but |f| does not shrink towards zero
+    /// there (or f is undefined between its ends): a pole or a jump, not a root.
+    Discontinuity,
+    /// The steps fell below the tolerance, but |f| did not shrink with them.
+    LargeResidual,
+    /// f is exactly zero at the point and next to it as well: an underflowed or
+    /// rounded-away stretch, not a located root.
+    ZeroPlateau,
 }
 
 impl Status {
-    pub const ALL: [Status; 11] = [
+    pub const ALL: [Status; 14] = [
         Status::ConvergedStep,
         Status::ConvergedResidual,
         Status::ExactZero,
@@ -40,6 +51,9 @@ impl Status {
         Status::NoSignChange,
         Status::NonFinite,
         Status::StuckAtBound,
+        Status::Discontinuity,
+        Status::LargeResidual,
+        Status::ZeroPlateau,
     ];
 
     pub fn is_converged(self) -> bool {
@@ -63,6 +77,9 @@ impl Status {
             Status::NoSignChange => "no-sign-change",
             Status::NonFinite => "non-finite",
             Status::StuckAtBound => "stuck-at-bound",
+            Status::Discontinuity => "discontinuity",
+            Status::LargeResidual => "large-residual",
+            Status::ZeroPlateau => "zero-plateau",
         }
     }
 
@@ -74,12 +91,16 @@ impl Status {
     pub fn diagnosis(self) -> &'static str {
         match self {
             Status::ConvergedStep => {
-                "Converged: the last step was smaller than the step tolerance."
+                "Converged: the final bracket or step is within the step tolerance, and |f| \
+                 shrank with it."
             }
             Status::ConvergedResidual => {
                 "Converged: the residual is within the residual tolerance."
             }
-            Status::ExactZero => "Converged: the equation is satisfied exactly at this value.",
+            Status::ExactZero => {
+                "Converged: the equation is satisfied exactly at this value, and not merely \
+                 by underflow."
+            }
             Status::BudgetSpent => {
                 "Not converged: the evaluation budget ran out. Raise the budget, loosen the \
                  tolerance, or start from guesses closer to the root."
@@ -115,6 +136,22 @@ impl Status {
                 "Not converged: the method kept pressing against a bound of the unknown. The \
                  root may lie outside the bounds; widen them if that is physical."
             }
+            Status::Discontinuity => {
+                "Not converged: f changes sign here but does not approach zero (or is \
+                 undefined between the two sides): a pole or a jump, not a root. Check the \
+                 equation near this value, and scan the range to see where f crosses zero."
+            }
+            Status::LargeResidual => {
+                "Not converged: the steps became smaller than the tolerance, but |f| did not \
+                 shrink with them. There is no root at this point: a minimum of |f| above \
+                 zero, or an asymptote. Scan the range for roots, or try other guesses."
+            }
+            Status::ZeroPlateau => {
+                "Not converged: f is exactly zero here and right next to it as well, which \
+                 happens where its terms underflow or round away (far out on an \
+                 exponential or an asymptote), not at a root. Try guesses nearer the \
+                 expected root, or bounds that exclude this stretch."
+            }
         }
     }
 }
@@ -139,6 +176,8 @@ pub enum StepKind {
     Scan,
     /// A finite-difference probe (Jacobians, sensitivities).
     Probe,
+    /// An evaluation the driver made to check a claim of convergence.
+    Check,
 }
 
 impl StepKind {
@@ -154,6 +193,7 @@ impl StepKind {
             StepKind::Backtrack => "backtrack",
             StepKind::Scan => "scan",
             StepKind::Probe => "probe",
+            StepKind::Check => "check",
         }
     }
 }
@@ -172,7 +212,8 @@ pub struct HistoryRow {
     pub kind: StepKind,
 }
 
-/// The result of a scalar solve. `converged` is true only when `status` says so.
+/// The result of a scalar solve. `converged` is true only when `status` says so, and
+/// then `certificate` holds the evidence.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Solution {
     /// The estimate of the root.
@@ -184,17 +225,121 @@ pub struct Solution {
     pub residual_at: f64,
     pub converged: bool,
     pub status: Status,
-    /// Exact number of calls of f.
+    /// Exact number of calls of f, `checks` included.
     pub evaluations: usize,
     pub iterations: usize,
+    /// Evaluations the driver made to check the method's claim of convergence
+    /// ([`StepKind::Check`]).
+    pub checks: usize,
     /// The final bracket, when a sign change is known.
     pub bracket: Option<(f64, f64)>,
-    /// Empty unless history was requested.
+    /// The evidence for convergence; `Some` exactly when `converged`.
+    pub certificate: Option<Certificate>,
+    /// Empty unless history was requested. Long solves keep the first
+    /// [`HISTORY_HEAD`] rows and the last [`HISTORY_TAIL`]; `history_dropped` counts
+    /// the rows left out between them.
     pub history: Vec<HistoryRow>,
+    pub history_dropped: usize,
 }
+
+/// Rows of history kept from the start of a long solve.
+pub const HISTORY_HEAD: usize = 1000;
+/// Rows of history kept from the end of a long solve.
+pub const HISTORY_TAIL: usize = 3000;
 
 impl Solution {
     pub fn message(&self) -> &'static str {
         self.status.diagnosis()
+    }
+}
+
+/// A log that keeps the first `head` entries and the latest `tail`, counting the rest:
+/// memory stays bounded however long a solve runs.
+#[derive(Debug, Clone)]
+pub struct BoundedLog<T> {
+    head: Vec<T>,
+    tail: std::collections::VecDeque<T>,
+    head_cap: usize,
+    tail_cap: usize,
+    dropped: usize,
+}
+
+impl<T> BoundedLog<T> {
+    pub fn new(head_cap: usize, tail_cap: usize) -> BoundedLog<T> {
+        BoundedLog {
+            head: Vec::new(),
+            tail: std::collections::VecDeque::new(),
+            head_cap,
+            tail_cap,
+            dropped: 0,
+        }
+    }
+
+    pub fn push(&mut self, row: T) {
+        if self.head.len() < self.head_cap {
+            self.head.push(row);
+            return;
+        }
+        if self.tail.len() == self.tail_cap {
+            if self.tail.pop_front().is_some() {
+                self.dropped += 1;
+            } else {
+                self.dropped += 1;
+                return;
+            }
+        }
+        self.tail.push_back(row);
+    }
+
+    /// The newest entry.
+    pub fn last_mut(&mut self) -> Option<&mut T> {
+        if self.tail.is_empty() {
+            self.head.last_mut()
+        } else {
+            self.tail.back_mut()
+        }
+    }
+
+    pub fn len(&self) -> usize {
+        self.head.len() + self.tail.len()
+    }
+
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// Entries left out between the head and the tail.
+    pub fn dropped(&self) -> usize {
+        self.dropped
+    }
+
+    /// The kept entries in order, and how many were left out.
+    pub fn into_parts(self) -> (Vec<T>, usize) {
+        let mut rows = self.head;
+        rows.extend(self.tail);
+        (rows, self.dropped)
+    }
+
+    /// The kept entries in order.
+    pub fn iter(&self) -> impl Iterator<Item = &T> {
+        self.head.iter().chain(self.tail.iter())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn bounded_log_keeps_head_and_tail() {
+        let mut log = BoundedLog::new(3, 2);
+        for i in 0..10 {
+            log.push(i);
+        }
+        assert_eq!(log.dropped(), 5);
+        assert_eq!(log.into_parts(), (vec![0, 1, 2, 8, 9], 5));
+        let mut none: BoundedLog<i32> = BoundedLog::new(0, 0);
+        none.push(1);
+        assert_eq!(none.into_parts(), (vec![], 1));
     }
 }

@@ -1,18 +1,17 @@
 //! All roots of f in an interval: sample, refine every sign change with the bracketing
-//! hybrid, and look for touching (even-multiplicity) roots at near-zero minima of |f|.
+//! hybrid through the driver (so each root carries a certificate, and poles and jumps
+//! are told apart from roots), and look for touching (even-multiplicity) roots at
+//! minima of |f| that fall towards zero like a double root's.
 
-use crate::driver::{Ask, Context, ScalarMethod};
+use crate::certificate::{self, Certificate, CertificateKind, Claim, Evidence, Verdict};
+use crate::driver::{Driver, Settings};
 use crate::error::{require_finite, InputError};
 use crate::methods::hybrid::Hybrid;
+use crate::outcome::Status;
 use crate::tolerances::{Bounds, Tolerances};
 
 /// Largest number of samples accepted (a guard against a runaway request).
 pub const MAX_SAMPLES: usize = 1_000_000;
-
-/// A touching root is accepted when |f| at the refined minimum is at most this many
-/// times the largest |f| among the samples (or at most `tol.f_abs`); the same test as
-/// the default method's for a touching root.
-pub const TOUCH_REL: f64 = crate::methods::auto::TOUCH_REL;
 
 /// How to scan.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -56,15 +55,18 @@ pub struct RangeRoot {
     pub x: f64,
     pub fx: f64,
     pub kind: RootKind,
-    /// True when the refinement converged (for a touching root: the minimum was located
-    /// to tolerance and passed the near-zero test).
+    /// True exactly when `certificate` is `Some`.
     pub converged: bool,
+    /// The evidence that this is a root ([`crate::certificate`]).
+    pub certificate: Option<Certificate>,
 }
 
 /// Every root found, sorted by x, with what the scan could and could not see.
 #[derive(Debug, Clone, PartialEq)]
 pub struct RangeRoots {
     pub roots: Vec<RangeRoot>,
+    /// Sign changes that are poles or jumps, not roots: the final bracket of each.
+    pub discontinuities: Vec<(f64, f64)>,
     /// Exact number of calls of f, samples included.
     pub evaluations: usize,
     pub samples: usize,
@@ -74,21 +76,34 @@ pub struct RangeRoots {
     pub limits: String,
 }
 
+/// A touching root's |f| at its located minimum may be at most this many times what a
+/// double root would give there: `4·min(|f(left)|, |f(right)|)·(w/h)²`.
+pub const TOUCH_FACTOR: f64 = 4.0;
+
 /// Finds the roots of f in [lo, hi].
 ///
 /// Algorithm:
 /// 1. Evaluate f at `samples` evenly spaced points, ends included (spacing
-///    h = (hi − lo)/(samples − 1)). A sample where f is exactly zero is a root.
-/// 2. Every neighbouring pair with finite values of opposite sign is refined with the
-///    bracketing hybrid ([`Hybrid::from_points`], which reuses both samples and the
-///    neighbours beyond them). A "root" where |f| ends larger than at both samples is
-///    a jump or pole (such as tan x at π/2), not a root, and is left out.
-/// 3. Every interior sample where |f| is a local minimum with no sign change on either
+///    h = (hi − lo)/(samples − 1)).
+/// 2. A sample where f is exactly zero is a root when the samples beside it have
+///    opposite signs, or when a point right next to it (the certificate's check, one
+///    evaluation) has a normal non-zero value; zeros from underflow or rounding (a run
+///    of zero samples far out on an asymptote) are not roots.
+/// 3. Every neighbouring pair with values of opposite sign (an infinite value has a
+///    sign) is refined with the bracketing hybrid ([`Hybrid::from_points`], which reuses
+///    both samples and the neighbours beyond them) through the [`Driver`], so each root
+///    carries its certificate. A sign change where |f| does not shrink as the bracket
+///    closes is a pole or a jump (tan x at π/2, a step): it is listed in
+///    `discontinuities`, not among the roots.
+/// 4. Every interior sample where |f| is a local minimum with no sign change on either
 ///    side, and where the parabola through the three samples dips below half of the
 ///    middle value, is refined by golden-section search for the minimum of |f| in the
-///    two spacings around it. It is reported as a touching root when
-///    |f(min)| <= max(tol.f_abs, 1e-10 × the largest sampled |f|) ([`TOUCH_REL`]); if the
-///    search meets a sign change instead, both sign changes are refined as above.
+///    two spacings around it, located to a width w. It is a touching root when |f|
+///    there is at most [`TOUCH_FACTOR`]·min(|f(left)|, |f(right)|)·(w/h)², where h is the
+///    distance to those samples: |f| falls towards zero at least as fast as a double
+///    root's; a minimum of |f| above zero, however small against the largest |f| in the
+///    range, does not. If the search meets a sign change instead, both sign changes are
+///    refined as in 3.
 ///
 /// Evaluations: `samples`, plus at most `tol.max_evals` per refinement. No point is
 /// evaluated twice. Limits: two roots closer than about h (a pair of sign changes
@@ -154,50 +169,59 @@ pub fn roots_in_range(
     };
     let fs: Vec<f64> = xs.iter().map(|&x| call(x)).collect();
 
-    let scale = fs
-        .iter()
-        .filter(|v| v.is_finite())
-        .fold(0.0f64, |m, v| m.max(v.abs()));
-    let touch_limit = options.tol.f_abs.max(TOUCH_REL * scale);
     let mut roots = Vec::new();
-    let mut jumps = 0usize;
+    let mut discontinuities = Vec::new();
     let mut unsettled = 0usize;
     let nonfinite = fs.iter().filter(|v| !v.is_finite()).count();
     let sample = |i: usize| (xs[i], fs[i]);
     let finite_nonzero = |v: f64| v.is_finite() && v != 0.0;
+    let signed = |v: f64| !v.is_nan() && v != 0.0;
+    let range = Bounds { lo, hi };
 
     for i in 0..n {
-        if fs[i] == 0.0 {
-            let left = i.checked_sub(1).map(|j| fs[j]);
-            let right = fs.get(i + 1).copied();
-            let kind = match (left, right) {
-                (Some(l), Some(r))
-                    if finite_nonzero(l) && finite_nonzero(r) && (l < 0.0) == (r < 0.0) =>
-                {
-                    RootKind::Touching
-                }
-                _ => RootKind::SignChange,
-            };
-            roots.push(RangeRoot {
-                x: xs[i],
-                fx: 0.0,
-                kind,
-                converged: true,
-            });
+        if fs[i] != 0.0 {
+            continue;
         }
+        let left = i.checked_sub(1).map(sample);
+        let right = (i + 1 < n).then(|| sample(i + 1));
+        if left.is_some_and(|p| p.1 == 0.0) && right.is_some_and(|p| p.1 == 0.0) {
+            continue; // inside a run of zeros: a plateau, not a located root
+        }
+        let mut known: Vec<(f64, f64)> = [left, right].into_iter().flatten().collect();
+        known.push(sample(i));
+        let Some(certificate) = certify_zero(xs[i], &known, range, &options.tol, &mut call) else {
+            continue;
+        };
+        let kind = match (left, right) {
+            (Some(l), Some(r))
+                if finite_nonzero(l.1) && finite_nonzero(r.1) && (l.1 < 0.0) == (r.1 < 0.0) =>
+            {
+                RootKind::Touching
+            }
+            _ => RootKind::SignChange,
+        };
+        roots.push(RangeRoot {
+            x: xs[i],
+            fx: 0.0,
+            kind,
+            converged: true,
+            certificate: Some(certificate),
+        });
     }
 
-    let refine_bracket =
-        |a: (f64, f64), b: (f64, f64), others: &[(f64, f64)], call: &mut dyn FnMut(f64) -> f64| {
-            let mut method = Hybrid::from_points(a.0, a.1, b.0, b.1, others);
-            let mut known: Vec<(f64, f64)> = vec![a, b];
-            known.extend_from_slice(others);
-            drive(&mut method, &mut known, &options.tol, call)
-        };
+    let mut take = |refined: Refined, roots: &mut Vec<RangeRoot>| match refined {
+        Refined::Root(root) => {
+            if !root.converged {
+                unsettled += 1;
+            }
+            roots.push(root);
+        }
+        Refined::Discontinuity(bracket) => discontinuities.push(bracket),
+    };
 
     for i in 0..n - 1 {
         let (fa, fb) = (fs[i], fs[i + 1]);
-        if finite_nonzero(fa) && finite_nonzero(fb) && (fa < 0.0) != (fb < 0.0) {
+        if signed(fa) && signed(fb) && (fa < 0.0) != (fb < 0.0) {
             let mut others = Vec::new();
             if i > 0 && fs[i - 1].is_finite() {
                 others.push(sample(i - 1));
@@ -205,20 +229,15 @@ pub fn roots_in_range(
             if i + 2 < n && fs[i + 2].is_finite() {
                 others.push(sample(i + 2));
             }
-            let (x, fx, converged) = refine_bracket(sample(i), sample(i + 1), &others, &mut call);
-            if fx.abs() > fa.abs().max(fb.abs()) {
-                jumps += 1;
-                continue;
-            }
-            if !converged {
-                unsettled += 1;
-            }
-            roots.push(RangeRoot {
-                x,
-                fx,
-                kind: RootKind::SignChange,
-                converged,
-            });
+            let refined = refine(
+                sample(i),
+                sample(i + 1),
+                &others,
+                range,
+                &options.tol,
+                &mut call,
+            );
+            take(refined, &mut roots);
         }
     }
 
@@ -250,13 +269,21 @@ pub fn roots_in_range(
             &mut call,
         );
         match found {
-            Minimum::At(x, fx, located) => {
-                if fx.abs() <= touch_limit {
+            Minimum::At { x, fx, width } => {
+                let h = (x - xs[i - 1]).min(xs[i + 1] - x);
+                let certificate = if fx == 0.0 {
+                    let known = [sample(i - 1), (x, 0.0), sample(i + 1)];
+                    certify_zero(x, &known, range, &options.tol, &mut call)
+                } else {
+                    certify_touching(x, fx, width, h, gl.min(gr), &options.tol)
+                };
+                if let Some(certificate) = certificate {
                     roots.push(RangeRoot {
                         x,
                         fx,
                         kind: RootKind::Touching,
-                        converged: located || fx == 0.0,
+                        converged: true,
+                        certificate: Some(certificate),
                     });
                 }
             }
@@ -264,16 +291,8 @@ pub fn roots_in_range(
                 // Two simple roots inside one dip: refine both.
                 for (a, b) in [(sample(i - 1), p), (p, sample(i + 1))] {
                     let (a, b) = if a.0 < b.0 { (a, b) } else { (b, a) };
-                    let (x, fx, converged) = refine_bracket(a, b, &[], &mut call);
-                    if !converged {
-                        unsettled += 1;
-                    }
-                    roots.push(RangeRoot {
-                        x,
-                        fx,
-                        kind: RootKind::SignChange,
-                        converged,
-                    });
+                    let refined = refine(a, b, &[], range, &options.tol, &mut call);
+                    take(refined, &mut roots);
                 }
             }
             Minimum::Gave => {}
@@ -282,33 +301,36 @@ pub fn roots_in_range(
 
     roots.sort_by(|p, q| p.x.total_cmp(&q.x));
     roots.dedup_by(|later, earlier| later.x == earlier.x);
+    discontinuities.sort_by(|p, q| p.0.total_cmp(&q.0));
 
     let mut limits = format!(
         "Scanned [{lo}, {hi}] at {n} evenly spaced samples, {h:e} apart. Roots closer \
          together than about {h:e} may be missed (two sign changes within one spacing \
          cancel out), and so may a touching root whose dip does not show as a local \
          minimum of |f| among the samples, or that lies within one spacing of either end. \
-         A touching root is accepted when |f| at its refined minimum is at most \
-         {touch_limit:e} (1e-10 times the largest sampled |f|, or the residual tolerance)."
+         A touching root is accepted only when |f| falls towards zero at its minimum at \
+         least as fast as a double root's."
     );
     if nonfinite > 0 {
         limits.push_str(&format!(
             " f was not finite at {nonfinite} of the samples; roots next to those were not sought."
         ));
     }
-    if jumps > 0 {
+    if !discontinuities.is_empty() {
         limits.push_str(&format!(
-            " {jumps} sign change(s) were jumps or poles (|f| grew as the bracket shrank), not roots, and are not listed."
+            " {} sign change(s) were poles or jumps (|f| did not shrink as the bracket closed), not roots; they are listed apart.",
+            discontinuities.len()
         ));
     }
     if unsettled > 0 {
         limits.push_str(&format!(
-            " {unsettled} refinement(s) used up their budget of {} evaluations and are marked not converged.",
+            " {unsettled} refinement(s) ended without a certificate (budget of {} evaluations, or undefined values) and are marked not converged.",
             options.tol.max_evals
         ));
     }
     Ok(RangeRoots {
         roots,
+        discontinuities,
         evaluations: evals,
         samples: n,
         spacing: h,
@@ -316,54 +338,121 @@ pub fn roots_in_range(
     })
 }
 
-/// Runs a scalar method with a local budget, answering from `known` any point already
-/// evaluated. Returns (root, f(root), converged).
-fn drive(
-    method: &mut dyn ScalarMethod,
-    known: &mut Vec<(f64, f64)>,
+/// What refining one sign change gave.
+enum Refined {
+    Root(RangeRoot),
+    /// A pole or a jump: the final bracket.
+    Discontinuity((f64, f64)),
+}
+
+/// Refines the sign change between the samples a and b with the bracketing hybrid,
+/// through the driver (so the root carries its certificate).
+fn refine(
+    a: (f64, f64),
+    b: (f64, f64),
+    others: &[(f64, f64)],
+    range: Bounds,
     tol: &Tolerances,
-    f: &mut dyn FnMut(f64) -> f64,
-) -> (f64, f64, bool) {
-    let mut used = 0usize;
-    let mut ctx = Context {
+    call: &mut dyn FnMut(f64) -> f64,
+) -> Refined {
+    let method = Hybrid::from_points(a.0, a.1, b.0, b.1, others);
+    let mut known = vec![a, b];
+    known.extend_from_slice(others);
+    let settings = Settings {
         tol: *tol,
-        bounds: Bounds::UNBOUNDED,
-        evaluations: 0,
+        bounds: range,
+        record_history: false,
+        keep_told: false,
     };
-    let mut ask = method.step(None, &ctx);
-    let mut best = known
-        .iter()
-        .copied()
-        .filter(|p| p.1.is_finite())
-        .min_by(|p, q| p.1.abs().total_cmp(&q.1.abs()))
-        .unwrap_or((f64::NAN, f64::NAN));
-    for _ in 0..(tol.max_evals + 10_000) {
-        match ask {
-            Ask::Done(finish) => {
-                return (finish.root, finish.residual, finish.status.is_converged());
-            }
-            Ask::Eval(x, _) => {
-                let fx = match known.iter().find(|p| p.0 == x) {
-                    Some(p) => p.1,
-                    None => {
-                        if used >= tol.max_evals || x.is_nan() {
-                            return (best.0, best.1, false);
-                        }
-                        used += 1;
-                        let fx = f(x);
-                        known.push((x, fx));
-                        fx
-                    }
-                };
-                if fx.is_finite() && fx.abs() < best.1.abs() {
-                    best = (x, fx);
+    let mut driver = Driver::new(Box::new(method), settings, &known);
+    while let Some(x) = driver.next_point() {
+        let fx = call(x);
+        if driver.tell(fx).is_err() {
+            break;
+        }
+    }
+    let s = driver.into_solution();
+    if s.status == Status::Discontinuity {
+        return Refined::Discontinuity(s.bracket.unwrap_or((a.0, b.0)));
+    }
+    Refined::Root(RangeRoot {
+        x: s.root,
+        fx: s.residual,
+        kind: RootKind::SignChange,
+        converged: s.converged,
+        certificate: s.certificate,
+    })
+}
+
+/// The certificate of an exact zero at x found among `known` points, making the one
+/// checking evaluation the certificate may ask for.
+fn certify_zero(
+    x: f64,
+    known: &[(f64, f64)],
+    range: Bounds,
+    tol: &Tolerances,
+    call: &mut dyn FnMut(f64) -> f64,
+) -> Option<Certificate> {
+    let mut evidence = Evidence::new();
+    for &(t, ft) in known {
+        evidence.push(t, ft);
+    }
+    let claim = Claim {
+        status: Status::ExactZero,
+        root: x,
+        at: x,
+        residual: 0.0,
+        bracket: None,
+        step: f64::NAN,
+    };
+    for checks in 0..=1 {
+        match certificate::assess(&claim, &evidence, tol, checks) {
+            Verdict::Certified(c) => return Some(c),
+            Verdict::Refused(_) => return None,
+            Verdict::Probe(p, _) => {
+                let p = if range.contains(p) { p } else { 2.0 * x - p };
+                if !range.contains(p) || evidence.lookup(p).is_some() {
+                    return None;
                 }
-                ctx.evaluations = used;
-                ask = method.step(Some((x, fx)), &ctx);
+                evidence.push(p, call(p));
             }
         }
     }
-    (best.0, best.1, false)
+    None
+}
+
+/// The certificate of a touching root: |f| at the minimum, located to a width w, is at
+/// most [`TOUCH_FACTOR`]·|f(sample)|·(w/h)², the sample being the nearer one's value
+/// `f_side` at distance h; or within the residual tolerance.
+fn certify_touching(
+    x: f64,
+    fx: f64,
+    w: f64,
+    h: f64,
+    f_side: f64,
+    tol: &Tolerances,
+) -> Option<Certificate> {
+    let m = fx.abs();
+    if m <= tol.f_abs {
+        return Some(Certificate {
+            kind: CertificateKind::Residual,
+            residual: m,
+            bound: tol.f_abs,
+            bracket: None,
+            width: 0.0,
+            reference: None,
+        });
+    }
+    let w = w.max(f64::MIN_POSITIVE);
+    let bound = TOUCH_FACTOR * f_side * (w / h) * (w / h);
+    (m <= bound && h > 0.0).then_some(Certificate {
+        kind: CertificateKind::Touching,
+        residual: m,
+        bound,
+        bracket: None,
+        width: w,
+        reference: Some((x + h, f_side)),
+    })
 }
 
 /// The lowest value of the parabola through three points, if it opens upwards.
@@ -381,8 +470,8 @@ fn parabola_minimum(x0: f64, y0: f64, x1: f64, y1: f64, x2: f64, y2: f64) -> Opt
 }
 
 enum Minimum {
-    /// The minimum of |f| (x, f(x)); true when located to tolerance.
-    At(f64, f64, bool),
+    /// The minimum of |f|: (x, f(x)) and the width of the interval it was located in.
+    At { x: f64, fx: f64, width: f64 },
     /// A point where f has the opposite sign: two sign changes.
     SignChange((f64, f64)),
     /// Non-finite values: no conclusion.
@@ -412,7 +501,11 @@ fn golden_minimum(
             .max(f64::EPSILON.sqrt() * x.abs())
             .max(f64::MIN_POSITIVE);
         if b - a <= 2.0 * width_tol {
-            return Minimum::At(x, fx_signed, true);
+            return Minimum::At {
+                x,
+                fx: fx_signed,
+                width: b - a,
+            };
         }
         // Probe the larger part.
         let u = if x - a > b - x {
@@ -421,7 +514,11 @@ fn golden_minimum(
             x + G * (b - x)
         };
         if u <= a || u >= b || u == x {
-            return Minimum::At(x, fx_signed, true);
+            return Minimum::At {
+                x,
+                fx: fx_signed,
+                width: b - a,
+            };
         }
         used += 1;
         let fu_signed = f(u);
@@ -429,7 +526,11 @@ fn golden_minimum(
             return Minimum::Gave;
         }
         if fu_signed == 0.0 {
-            return Minimum::At(u, 0.0, true);
+            return Minimum::At {
+                x: u,
+                fx: 0.0,
+                width: 0.0,
+            };
         }
         if fu_signed.signum() != sign {
             return Minimum::SignChange((u, fu_signed));
@@ -445,7 +546,11 @@ fn golden_minimum(
             fx = fu;
             fx_signed = fu_signed;
             if fx <= tol.f_abs {
-                return Minimum::At(x, fx_signed, true);
+                return Minimum::At {
+                    x,
+                    fx: fx_signed,
+                    width: b - a,
+                };
             }
         } else if u < x {
             a = u;
@@ -453,5 +558,10 @@ fn golden_minimum(
             b = u;
         }
     }
-    Minimum::At(x, fx_signed, false)
+    // Budget spent: report the interval reached; the touching test judges it.
+    Minimum::At {
+        x,
+        fx: fx_signed,
+        width: b - a,
+    }
 }

@@ -6,12 +6,16 @@
 
 use serde_json::{json, Map, Value};
 
-use crate::driver::{MethodKind, Options, Start, Stepper};
 use crate::error::InputError;
+use crate::methods::{MethodKind, Options, Start};
+use crate::stepper::Stepper;
+use crate::tolerances::MAX_EVALS;
 use crate::tolerances::{Bounds, Tolerances};
 
 const FORMAT: &str = "tacit-stepper";
-const VERSION: u64 = 1;
+/// Version 2: claims of convergence are checked by the driver, which may ask for
+/// checking points, and the methods treat infinite values and NaN gaps differently.
+const VERSION: u64 = 2;
 
 fn num(v: f64) -> Value {
     if v.is_nan() {
@@ -127,9 +131,12 @@ pub(crate) fn restore(text: &str) -> Result<Stepper, InputError> {
         .ok_or_else(|| bad("field \"tolerances\" is not an object"))?;
     let max_evals = field(t, "max_evals")?
         .as_u64()
-        .filter(|&n| n <= 10_000_000)
-        .ok_or_else(|| bad("tolerances.max_evals is not a whole number up to 10000000"))?
-        as usize;
+        .filter(|&n| n <= MAX_EVALS as u64)
+        .ok_or_else(|| {
+            bad(format!(
+                "tolerances.max_evals is not a whole number up to {MAX_EVALS}"
+            ))
+        })? as usize;
     let tol = Tolerances {
         x_abs: read_num(field(t, "x_abs")?, "tolerances.x_abs")?,
         x_rel: read_num(field(t, "x_rel")?, "tolerances.x_rel")?,

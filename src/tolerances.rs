@@ -13,7 +13,8 @@ use crate::error::InputError;
 ///   still ends, because bracketing methods stop when no float lies between the ends.
 /// - `x_rel = 1e-12`.
 /// - `f_abs = 0`: only an exact zero stops on the residual.
-/// - `max_evals = 200`: the budget of function evaluations, initial ones included.
+/// - `max_evals = 200`: the budget of function evaluations, initial ones included, and
+///   at most [`MAX_EVALS`].
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Tolerances {
     pub x_abs: f64,
@@ -21,6 +22,11 @@ pub struct Tolerances {
     pub f_abs: f64,
     pub max_evals: usize,
 }
+
+/// The largest budget accepted. A stepper keeps every told value for its saved record,
+/// 16 bytes each, so the budget bounds its memory (16 MB at this limit); no root of one
+/// unknown needs more (bisection of the widest double range takes about 2,100).
+pub const MAX_EVALS: usize = 1_000_000;
 
 impl Default for Tolerances {
     fn default() -> Self {
@@ -54,10 +60,13 @@ impl Tolerances {
                 ));
             }
         }
-        if self.max_evals < 2 {
+        if self.max_evals < 2 || self.max_evals > MAX_EVALS {
             return Err(InputError::new(
                 "bad-tolerance",
-                format!("max_evals must be at least 2, got {}", self.max_evals),
+                format!(
+                    "max_evals must be between 2 and {MAX_EVALS}, got {}",
+                    self.max_evals
+                ),
             ));
         }
         Ok(())

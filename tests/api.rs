@@ -270,7 +270,7 @@ fn tampered_stepper_records_are_errors() {
         "bad-saved-stepper",
         &["fast"],
     );
-    let huge = "x".repeat(api::MAX_REQUEST_BYTES + 1);
+    let huge = "x".repeat(api::MAX_SAVED_STEPPER_BYTES + 1);
     check_error(
         StepperSession::restore(&huge),
         "bad-saved-stepper",

@@ -18,7 +18,9 @@ use candidates::{drive, Brent, Chandrupatla, Toms748};
 use tacit::driver::ScalarMethod;
 use tacit::methods::hybrid::Hybrid;
 use tacit::methods::illinois::Illinois;
-use tacit::{solve, Bounds, MethodKind, Options, Solution, Start, Status, Tolerances};
+use tacit::{
+    solve, Bounds, CertificateKind, MethodKind, Options, Solution, Start, Status, Tolerances,
+};
 
 const BRACKETING: [MethodKind; 3] = [
     MethodKind::Hybrid,
@@ -311,7 +313,8 @@ fn honest_statuses_at_the_edges() {
         );
         assert_eq!(s.status, Status::NoSignChange, "{who}");
         assert!(!s.converged && xs.len() == 2, "{who}");
-        // An exact zero at the first end ends at once.
+        // An exact zero at the first end: one check next to it confirms it is not an
+        // underflowed plateau (issue 9), then the solve ends.
         let (s, xs) = counted(
             method,
             Start::Bracket(1.0, 3.0),
@@ -319,12 +322,19 @@ fn honest_statuses_at_the_edges() {
             Bounds::UNBOUNDED,
             |x| x - 1.0,
         );
+        assert_eq!((s.status, s.root), (Status::ExactZero, 1.0), "{who}");
+        assert_eq!(xs.len(), 2, "{who}: the end and one check");
+        assert!(
+            (xs[1] - 1.0).abs() <= 1e-11,
+            "{who}: check next to the zero"
+        );
         assert_eq!(
-            (s.status, s.root, xs.len()),
-            (Status::ExactZero, 1.0, 1),
+            s.certificate.map(|c| c.kind),
+            Some(CertificateKind::ExactZero),
             "{who}"
         );
-        // NaN at an end, and NaN inside the bracket: not converged.
+        // NaN at an end marks a domain wall: the method narrows in from it, finds the
+        // sign change at x = 0.5 and converges on the root x = 1 (issue 9, "domain walls").
         let (s, _) = counted(
             method,
             Start::Bracket(-1.0, 2.0),
@@ -338,8 +348,26 @@ fn honest_statuses_at_the_edges() {
                 }
             },
         );
+        assert!(s.converged, "{who}: {:?}", s.status);
+        assert!((s.root - 1.0).abs() <= 1e-12, "{who}");
+        // NaN at an end and no sign change in the defined part: not converged, and the
+        // wall was located on the way.
+        let (s, xs) = counted(
+            method,
+            Start::Bracket(-1.0, 2.0),
+            tol,
+            Bounds::UNBOUNDED,
+            |x| if x < 0.0 { f64::NAN } else { x + 1.0 },
+        );
         assert_eq!(s.status, Status::NonFinite, "{who}");
         assert!(!s.converged);
+        let innermost_nan = xs.iter().copied().filter(|&x| x < 0.0).fold(-1.0, f64::max);
+        assert!(
+            innermost_nan > -1e-9,
+            "{who}: wall at 0 located, got {innermost_nan}"
+        );
+        // A sign change across an undefined stretch (-0.9, 1.9): both walls are located,
+        // and the result is a discontinuity, not a root and not "non-finite".
         let (s, _) = counted(
             method,
             Start::Bracket(-1.0, 2.0),
@@ -353,8 +381,13 @@ fn honest_statuses_at_the_edges() {
                 }
             },
         );
-        assert_eq!(s.status, Status::NonFinite, "{who}");
+        assert_eq!(s.status, Status::Discontinuity, "{who}");
         assert!(!s.converged);
+        let (lo, hi) = s.bracket.expect("the sign change is reported");
+        assert!(
+            (lo + 0.9).abs() < 1e-9 && (hi - 1.9).abs() < 1e-9,
+            "{who}: {lo} {hi}"
+        );
         // The residual tolerance.
         let loose = Tolerances { f_abs: 1e-3, ..tol };
         let (s, _) = counted(

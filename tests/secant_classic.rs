@@ -24,17 +24,21 @@ fn counted(
     )
 }
 
-/// One new evaluation per iteration plus f(x1) before the loop (common practice, no source).
+/// One new evaluation per iteration plus f(x1) before the loop (common practice, no source),
+/// plus the driver's checks of a claim of convergence (at most one here: a point just
+/// beyond the estimate).
 fn check_iterations_plus_one(name: &str, f: fn(f64) -> f64, a: f64, b: f64) {
     let (g, calls) = counted(f);
     let s = solve(Start::Guesses(a, b), &secant(), g).unwrap();
     assert!(s.iterations >= 1, "{name}: no iteration");
+    assert!(s.checks <= 1, "{name}: {} checks", s.checks);
     assert_eq!(
         s.evaluations,
-        s.iterations + 1,
-        "{name}: evaluations {} != iterations {} + 1 (status {:?})",
+        s.iterations + 1 + s.checks,
+        "{name}: evaluations {} != iterations {} + 1 + checks {} (status {:?})",
         s.evaluations,
         s.iterations,
+        s.checks,
         s.status
     );
     assert_eq!(calls.get(), s.evaluations, "{name}: counted calls");

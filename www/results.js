@@ -17,6 +17,7 @@ const KIND_WORDS = {
   backtrack: 'back-off',
   scan: 'scan',
   probe: 'probe',
+  check: 'check of convergence',
 };
 export const kindWords = (k) => KIND_WORDS[k] ?? String(k);
 
@@ -55,6 +56,11 @@ export function showResult(r, view) {
     fact('Status code', String(r.status)),
   );
   if (r.bracket) dl.append(fact('Final bracket', `[${fmt(r.bracket[0], 8)}, ${fmt(r.bracket[1], 8)}]`));
+  const c = r.certificate;
+  if (c) {
+    const bound = c.kind === 'exact-zero' ? '' : ` (|f| = ${fmt(c.residual, 3)}, at most ${fmt(c.bound, 3)})`;
+    dl.append(fact('Evidence of convergence', `${c.explanation}${bound}`));
+  }
   if (r.sensitivityEvaluations) dl.append(fact('Evaluations for sensitivities', String(r.sensitivityEvaluations)));
   for (const [term, text] of view.settings) dl.append(fact(term, text));
   body.append(dl);

@@ -23,8 +23,8 @@ use std::collections::{HashMap, HashSet};
 use super::sensitivity::{self, Sensitivity};
 use super::set::{EquationSet, Layout};
 use super::system::{self, SystemOptions, SystemSolution};
-use crate::driver::{Options, Start};
 use crate::error::InputError;
+use crate::methods::{Options, Start};
 use crate::outcome::{Solution, Status};
 use crate::tolerances::Bounds;
 
@@ -75,6 +75,8 @@ pub struct BlockReport {
     pub status: Status,
     pub evaluations: usize,
     pub iterations: usize,
+    /// The evidence for this block's convergence ([`crate::certificate`]).
+    pub certificate: Option<crate::Certificate>,
 }
 
 /// The result of [`solve_set`]. `converged` is true only if every block converged.
@@ -353,17 +355,17 @@ pub fn solve_set(
         let stmt: Vec<usize> = block_eqs.iter().map(|&e| equations[e]).collect();
         let mut block = layout.block(&values, &live, mask, &stmt)?;
         let report_names: Vec<String> = block_unknowns.iter().map(|&k| names[k].clone()).collect();
-        let (block_status, evals, iters) = if let [k] = block_unknowns.as_slice() {
+        let (block_status, evals, iters, certificate) = if let [k] = block_unknowns.as_slice() {
             let opts = Options {
                 bounds: bounds[*k],
                 record_history: options.record_history || (sensitivities && single),
                 ..*options
             };
             let (a, b) = starts[*k];
-            let sol = crate::driver::solve(Start::Guesses(a, b), &opts, |x| block.eval_one(x))?;
+            let sol = crate::stepper::solve(Start::Guesses(a, b), &opts, |x| block.eval_one(x))?;
             values[slots[*k]] = sol.root;
             residuals[block_eqs[0]] = sol.residual;
-            let out = (sol.status, sol.evaluations, sol.iterations);
+            let out = (sol.status, sol.evaluations, sol.iterations, sol.certificate);
             if single {
                 scalar = Some(sol);
             }
@@ -382,7 +384,7 @@ pub fn solve_set(
             for (j, &e) in block_eqs.iter().enumerate() {
                 residuals[e] = sol.residuals.get(j).copied().unwrap_or(f64::NAN);
             }
-            let out = (sol.status, sol.evaluations, sol.iterations);
+            let out = (sol.status, sol.evaluations, sol.iterations, sol.certificate);
             if single {
                 system_solution = Some(sol);
             }
@@ -390,7 +392,7 @@ pub fn solve_set(
         };
         evaluations += evals;
         iterations += iters;
-        let ok = block_status.is_converged();
+        let ok = certificate.is_some();
         reports.push(BlockReport {
             unknowns: report_names,
             equations: block_eqs.clone(),
@@ -398,6 +400,7 @@ pub fn solve_set(
             status: block_status,
             evaluations: evals,
             iterations: iters,
+            certificate,
         });
         status = block_status;
         if !ok {

@@ -109,9 +109,12 @@ struct SearchSide {
 ///    first looks a quarter of the way to zero, up to three times (roots of quantities
 ///    of one sign often lie at a smaller scale). A side that meets a non-finite value
 ///    halves towards it instead, up to ten times.
-/// 6. An exact zero met outside a bracket is confirmed by one probe close to it: if f
-///    is zero there too, the zero is an underflowed plateau (such as x·e⁻ˣ far out), not
-///    a root, and is treated like a non-finite value.
+/// 6. An exact zero met outside a bracket is confirmed by one probe next to it (at
+///    [`crate::certificate::zero_probe_step`]): if f is zero or underflowed there too,
+///    the zero is a plateau (such as x·e⁻ˣ far out), not a root, and is treated like a
+///    non-finite value.
+/// 7. An infinite value has a sign: with a value of the other sign it is a bracket, and
+///    the hybrid takes over (a cable tension whose residual is −∞ at the first guess).
 ///
 /// Each failure ends with its own status: [`Status::Diverging`],
 /// [`Status::Oscillating`], [`Status::Stagnated`], [`Status::NoSignChange`],
@@ -159,6 +162,8 @@ pub struct Auto {
     moving_away: usize,
     alternating: usize,
     probes: usize,
+    /// The secant step found within tolerance, for the claim of a touching root.
+    small_step: f64,
     backoffs_in_a_row: usize,
     backoffs_total: usize,
     backoff_good: (f64, f64),
@@ -216,6 +221,7 @@ impl Auto {
             moving_away: 0,
             alternating: 0,
             probes: 0,
+            small_step: f64::NAN,
             backoffs_in_a_row: 0,
             backoffs_total: 0,
             backoff_good: (f64::NAN, f64::NAN),
@@ -268,7 +274,7 @@ impl Auto {
     fn try_bracket(&mut self, x: f64, fx: f64, ctx: &Context) -> Option<Ask> {
         let mut partner: Option<(f64, f64)> = None;
         for &(t, ft) in &self.points {
-            if good(ft) && t != x && (ft < 0.0) != (fx < 0.0) {
+            if ft != 0.0 && super::opposite(ft, fx) && t != x {
                 // The nearest opposite-sign point gives the tightest bracket, since no
                 // sign change existed before this point arrived.
                 if partner.is_none_or(|(p, _)| (t - x).abs() < (p - x).abs()) {
@@ -353,15 +359,17 @@ impl Auto {
             .max(4.0 * f64::EPSILON * x2.abs())
             .max(f64::MIN_POSITIVE);
         let p = ctx.bounds.clamp(x2 + t.copysign(dir));
+        self.small_step = (x2 - self.x1).abs().max(t);
         if self.probes >= MAX_PROBES || self.seen(p) || !p.is_finite() {
             return self.stagnated();
         }
         self.ask(p, StepKind::Secant, Purpose::Probe)
     }
 
-    /// Secant steps within tolerance, but no sign change around them. That is a
-    /// touching (even-multiplicity) root when |f| has fallen to [`TOUCH_REL`] of the
-    /// largest |f| seen, and stagnation otherwise.
+    /// Secant steps within tolerance, but no sign change around them. That is claimed
+    /// as a touching (even-multiplicity) root when |f| has fallen to [`TOUCH_REL`] of the
+    /// largest |f| seen (the driver then checks that |f| shrank with the steps), and is
+    /// stagnation otherwise.
     fn stagnated(&mut self) -> Ask {
         self.symptom = Symptom::Stagnated;
         let (x, fx) = self.best();
@@ -375,7 +383,7 @@ impl Auto {
         } else {
             Status::Stagnated
         };
-        Finish::at(status, x, fx)
+        Finish::stepped(status, x, fx, self.small_step)
     }
 
     /// A good value arrived from a secant step or probe, with no sign change.
@@ -729,7 +737,8 @@ impl ScalarMethod for Auto {
                         .filter(|p| p.0 != x && p.1.is_finite())
                         .min_by(|p, q| (p.0 - x).abs().total_cmp(&(q.0 - x).abs()))
                         .map(|p| p.0);
-                    let check = near.map(|n| x + (n - x) * 1e-3);
+                    let h = crate::certificate::zero_probe_step(x, &ctx.tol);
+                    let check = near.map(|n| x + h.copysign(n - x));
                     match check {
                         Some(c) if c != x && !self.seen(c) && ctx.bounds.contains(c) => {
                             let side = match purpose {
@@ -747,7 +756,9 @@ impl ScalarMethod for Auto {
             }
         }
         if let Purpose::ZeroCheck(z, side) = purpose {
-            if fx != 0.0 && fx.is_finite() {
+            // A normal value next to the zero confirms it; zero or an underflowed
+            // (subnormal) value there means a plateau.
+            if fx.is_finite() && fx.abs() >= f64::MIN_POSITIVE {
                 return Finish::at(Status::ExactZero, z, 0.0);
             }
             // Zero again nearby: an underflowed plateau, not a root.
@@ -760,10 +771,11 @@ impl ScalarMethod for Auto {
                 None => self.start_search(ctx),
             };
         }
-        if good(fx) {
-            if fx.abs() <= ctx.tol.f_abs {
-                return Finish::at(Status::ConvergedResidual, x, fx);
-            }
+        if good(fx) && fx.abs() <= ctx.tol.f_abs {
+            return Finish::at(Status::ConvergedResidual, x, fx);
+        }
+        if !fx.is_nan() && fx != 0.0 {
+            // A finite or infinite value: either has a sign, so either may bracket.
             if let Some(ask) = self.try_bracket(x, fx, ctx) {
                 return ask;
             }

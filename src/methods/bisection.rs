@@ -1,5 +1,6 @@
 //! Bisection.
 
+use super::bracket::{midpoint, Gap, Sought, WallSeek};
 use crate::driver::{Ask, Context, Finish, ScalarMethod};
 use crate::outcome::{Status, StepKind};
 
@@ -11,6 +12,10 @@ use crate::outcome::{Status, StepKind};
 /// - It cannot diverge; it stops when the bracket is within twice the step tolerance or
 ///   no float lies strictly between its ends. The root returned is the end with the
 ///   smaller |f|.
+/// - A NaN at a midpoint is a domain wall: the defined stretches on either side of the
+///   undefined gap are halved ([`Gap`]) until a point of the other sign turns up or
+///   both walls are located, which ends as a discontinuity (a sign change across a
+///   stretch where f is undefined), not a root.
 /// - Reference: Burden & Faires, *Numerical Analysis*, Algorithm 2.1.
 #[derive(Debug, Clone)]
 pub struct Bisection {
@@ -20,6 +25,9 @@ pub struct Bisection {
     fb: f64,
     phase: u8,
     iterations: usize,
+    gap: Option<Gap>,
+    /// Searching in from an undefined end for a value of the other sign.
+    seek: Option<WallSeek>,
 }
 
 impl Bisection {
@@ -32,6 +40,8 @@ impl Bisection {
             fb: f64::NAN,
             phase: 0,
             iterations: 0,
+            gap: None,
+            seek: None,
         }
     }
 
@@ -49,6 +59,8 @@ impl Bisection {
             fb,
             phase: 2,
             iterations: 0,
+            gap: None,
+            seek: None,
         }
     }
 
@@ -58,10 +70,24 @@ impl Bisection {
 
     /// Checks the ends once both are known, then takes the first step.
     fn start(&mut self, ctx: &Context) -> Ask {
+        if let Some(seek) = WallSeek::from_ends((self.a, self.fa), (self.b, self.fb)) {
+            self.seek = Some(seek);
+            return self.seek_next(ctx);
+        }
         if let Some(done) = super::check_bracket_ends((self.a, self.fa), (self.b, self.fb)) {
             return done;
         }
         self.next(ctx)
+    }
+
+    fn seek_next(&mut self, ctx: &Context) -> Ask {
+        let Some(seek) = self.seek else {
+            return self.next(ctx);
+        };
+        match seek.next_point(|m| ctx.tol.x_tol(m)) {
+            Some(m) => Ask::Eval(m, StepKind::Backtrack),
+            None => Finish::at(Status::NonFinite, seek.far, seek.f_far),
+        }
     }
 
     fn next(&mut self, ctx: &Context) -> Ask {
@@ -69,7 +95,13 @@ impl Bisection {
         if fx.abs() <= ctx.tol.f_abs {
             return Finish::at(Status::ConvergedResidual, x, fx);
         }
-        let m = super::hybrid::midpoint(self.a, self.b);
+        if let Some(gap) = self.gap {
+            return match gap.next_point(self.a, self.b, |m| ctx.tol.x_tol(m)) {
+                Some(m) => Ask::Eval(m, StepKind::Backtrack),
+                None => Finish::at(Status::Discontinuity, x, fx),
+            };
+        }
+        let m = midpoint(self.a, self.b);
         if m <= self.a || m >= self.b || self.b - self.a <= 2.0 * ctx.tol.x_tol(m) {
             return Finish::at(Status::ConvergedStep, x, fx);
         }
@@ -106,11 +138,27 @@ impl ScalarMethod for Bisection {
             }
             (_, Some((x, fx))) => {
                 self.iterations += 1;
+                if let Some(seek) = self.seek.as_mut() {
+                    match seek.tell(x, fx) {
+                        Sought::Continue => return self.seek_next(ctx),
+                        Sought::Zero(z) => return Finish::at(Status::ExactZero, z, 0.0),
+                        Sought::Bracket(p, q) => {
+                            self.seek = None;
+                            ((self.a, self.fa), (self.b, self.fb)) =
+                                if p.0 < q.0 { (p, q) } else { (q, p) };
+                            return self.next(ctx);
+                        }
+                    }
+                }
                 if fx == 0.0 {
                     return Finish::at(Status::ExactZero, x, fx);
                 }
                 if fx.is_nan() {
-                    return Finish::at(Status::NonFinite, x, fx);
+                    match self.gap.as_mut() {
+                        Some(g) => g.widen(x),
+                        None => self.gap = Some(Gap::at(x)),
+                    }
+                    return self.next(ctx);
                 }
                 if fx.signum() == self.fa.signum() {
                     self.a = x;
@@ -119,6 +167,7 @@ impl ScalarMethod for Bisection {
                     self.b = x;
                     self.fb = fx;
                 }
+                self.gap = self.gap.and_then(|g| g.within(self.a, self.b));
                 self.next(ctx)
             }
             (_, None) => self.next(ctx),

@@ -1,5 +1,6 @@
 //! The bracketing hybrid that cannot diverge.
 
+use super::bracket::{midpoint, Gap, Sought, WallSeek};
 use crate::driver::{Ask, Context, Finish, ScalarMethod};
 use crate::outcome::{Status, StepKind};
 
@@ -27,9 +28,11 @@ use crate::outcome::{Status, StepKind};
 ///   step is a split, so no more than four evaluations pass between splits while the
 ///   bracket shrinks slowly.
 ///
-/// - NaN at a new point (a hole in the function's domain inside the bracket): step back
-///   halfway towards the best end, up to 8 times in a row, then end with
-///   [`Status::NonFinite`]. Infinite values keep their sign and are split past.
+/// - NaN at a new point (a hole in the function's domain inside the bracket): the
+///   defined stretches beside the undefined gap are halved ([`Gap`]) until the bracket
+///   is free of it again or both walls are located, which ends as
+///   [`Status::Discontinuity`]. Infinite values keep their sign: they may be ends of the
+///   bracket, and the interpolation then gives way to a split.
 /// - Order of convergence: about 1.839 (inverse quadratic) near a simple root; linear, one
 ///   split per evaluation, where the test sends it to the split (multiple roots, flat
 ///   stretches); it cannot diverge.
@@ -65,10 +68,10 @@ pub struct Hybrid {
     /// Bracket width when the current run of unsplit steps began, and the run's length.
     anchor_width: f64,
     unsplit: u8,
-    /// Points evaluated earlier with no usable value that lie inside the bracket.
-    avoid: Vec<f64>,
-    /// NaN values in a row, each answered by a step back towards the best end.
-    backoffs: u8,
+    /// Where f is undefined inside the bracket.
+    gap: Option<Gap>,
+    /// Searching in from an undefined end for a value of the other sign.
+    seek: Option<WallSeek>,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -79,9 +82,6 @@ enum Phase {
     Ready,
     Running,
 }
-
-/// NaN values in a row answered by a step back before giving up.
-const MAX_BACKOFFS: u8 = 8;
 
 /// Steps without a split allowed before the guard forces one.
 const GUARD_STEPS: u8 = 4;
@@ -99,21 +99,22 @@ impl Hybrid {
             iterations: 0,
             anchor_width: f64::INFINITY,
             unsplit: 0,
-            avoid: Vec::new(),
-            backoffs: 0,
+            gap: None,
+            seek: None,
         }
     }
 
-    /// Starts from an already evaluated sign-change bracket (fa, fb finite, of opposite
-    /// signs), without evaluating a or b again. `others` are further evaluated points: one
-    /// inside the bracket narrows it; the nearest one outside serves the interpolation.
-    /// None of them is evaluated again.
+    /// Starts from an already evaluated sign-change bracket (fa, fb of opposite signs,
+    /// either may be infinite), without evaluating a or b again. `others` are further
+    /// evaluated points: one inside the bracket narrows it (a NaN one marks a gap); the
+    /// nearest finite one outside serves the interpolation. None of them is evaluated
+    /// again.
     pub fn from_points(a: f64, fa: f64, b: f64, fb: f64, others: &[(f64, f64)]) -> Hybrid {
         let mut h = Hybrid::new(a, b);
         h.f1 = fa;
         h.f2 = fb;
         h.phase = Phase::Ready;
-        if !(fa.is_finite() && fb.is_finite() && fa.signum() != fb.signum()) {
+        if !super::opposite(fa, fb) {
             return h; // `check_start` reports it.
         }
         let (mut lo, mut flo, mut hi, mut fhi) = if a <= b {
@@ -121,10 +122,11 @@ impl Hybrid {
         } else {
             (b, fb, a, fa)
         };
+        let mut undefined: Vec<f64> = Vec::new();
         for &(x, fx) in others {
             if x > lo && x < hi {
                 if fx.is_nan() {
-                    h.avoid.push(x);
+                    undefined.push(x);
                 } else if fx.signum() == flo.signum() && fx != 0.0 {
                     lo = x;
                     flo = fx;
@@ -135,7 +137,12 @@ impl Hybrid {
                 }
             }
         }
-        h.avoid.retain(|&x| x > lo && x < hi);
+        for x in undefined.into_iter().filter(|&x| x > lo && x < hi) {
+            match h.gap.as_mut() {
+                Some(g) => g.widen(x),
+                None => h.gap = Some(Gap::at(x)),
+            }
+        }
         let nearest = others
             .iter()
             .copied()
@@ -169,12 +176,26 @@ impl Hybrid {
 
     /// Checks the two ends once both are known.
     fn check_start(&mut self, ctx: &Context) -> Ask {
+        if let Some(seek) = WallSeek::from_ends((self.x1, self.f1), (self.x2, self.f2)) {
+            self.seek = Some(seek);
+            return self.seek_next(ctx);
+        }
         if let Some(done) = super::check_bracket_ends((self.x1, self.f1), (self.x2, self.f2)) {
             return done;
         }
         let (lo, hi) = self.ends();
         self.anchor_width = hi - lo;
         self.next(ctx)
+    }
+
+    fn seek_next(&mut self, ctx: &Context) -> Ask {
+        let Some(seek) = self.seek else {
+            return self.next(ctx);
+        };
+        match seek.next_point(|m| ctx.tol.x_tol(m)) {
+            Some(m) => Ask::Eval(m, StepKind::Backtrack),
+            None => Finish::at(Status::NonFinite, seek.far, seek.f_far),
+        }
     }
 
     /// Takes the value at a new point strictly inside the bracket.
@@ -189,7 +210,7 @@ impl Hybrid {
         self.x1 = xt;
         self.f1 = ft;
         let (lo, hi) = self.ends();
-        self.avoid.retain(|&x| x > lo && x < hi);
+        self.gap = self.gap.and_then(|g| g.within(lo, hi));
     }
 
     /// Stops, or asks for the next point.
@@ -202,6 +223,12 @@ impl Hybrid {
             return Finish::at(Status::ConvergedResidual, u, fu);
         }
         let (lo, hi) = self.ends();
+        if let Some(gap) = self.gap {
+            return match gap.next_point(lo, hi, |m| ctx.tol.x_tol(m)) {
+                Some(m) => Ask::Eval(m, StepKind::Backtrack),
+                None => Finish::at(Status::Discontinuity, u, fu),
+            };
+        }
         let width = hi - lo;
         let mid = midpoint(lo, hi);
         let tol = ctx.tol.x_tol(u);
@@ -235,41 +262,7 @@ impl Hybrid {
         if !(x > lo && x < hi) {
             x = mid;
         }
-        let mut moves = 0;
-        while self.avoid.contains(&x) && moves < 64 {
-            // A point evaluated before without a usable value: step off it (rare).
-            x = if x == mid {
-                x.next_up()
-            } else {
-                x + (mid - x) / 2.0
-            };
-            if !(x > lo && x < hi) {
-                x = mid;
-            }
-            moves += 1;
-        }
-        if self.avoid.contains(&x) {
-            return Finish::at(Status::NonFinite, u, fu);
-        }
         Ask::Eval(x, kind)
-    }
-
-    /// After NaN at x (no sign, so the bracket cannot be narrowed): try halfway back
-    /// towards the best end, a bounded number of times in a row, then give up honestly.
-    fn back_off(&mut self, x: f64) -> Ask {
-        let (u, fu) = self.best();
-        let (lo, hi) = self.ends();
-        self.avoid.push(x);
-        if self.backoffs >= MAX_BACKOFFS {
-            return Finish::at(Status::NonFinite, u, fu);
-        }
-        self.backoffs += 1;
-        let target = midpoint(x, u);
-        if target > lo && target < hi && target != x && !self.avoid.contains(&target) {
-            Ask::Eval(target, StepKind::Backtrack)
-        } else {
-            Finish::at(Status::NonFinite, u, fu)
-        }
     }
 
     /// The inverse quadratic point when Chandrupatla's test accepts it, kept a fraction
@@ -323,10 +316,28 @@ impl ScalarMethod for Hybrid {
             }
             (Phase::Running, Some((x, fx))) => {
                 self.iterations += 1;
-                if fx.is_nan() {
-                    return self.back_off(x);
+                if let Some(seek) = self.seek.as_mut() {
+                    match seek.tell(x, fx) {
+                        Sought::Continue => return self.seek_next(ctx),
+                        Sought::Zero(z) => return Finish::at(Status::ExactZero, z, 0.0),
+                        Sought::Bracket((xa, fa), (xb, fb)) => {
+                            self.seek = None;
+                            (self.x1, self.f1, self.x2, self.f2) = (xa, fa, xb, fb);
+                            self.x3 = None;
+                            let (lo, hi) = self.ends();
+                            self.anchor_width = hi - lo;
+                            return self.next(ctx);
+                        }
+                    }
                 }
-                self.backoffs = 0;
+                if fx.is_nan() {
+                    // No sign: the bracket stays, the gap grows, the dropped end stays.
+                    match self.gap.as_mut() {
+                        Some(g) => g.widen(x),
+                        None => self.gap = Some(Gap::at(x)),
+                    }
+                    return self.next(ctx);
+                }
                 self.update(x, fx);
                 self.next(ctx)
             }
@@ -339,11 +350,7 @@ impl ScalarMethod for Hybrid {
 
     fn bracket(&self) -> Option<(f64, f64)> {
         let known = matches!(self.phase, Phase::Ready | Phase::Running);
-        if known
-            && self.f1.is_finite()
-            && self.f2.is_finite()
-            && self.f1.signum() != self.f2.signum()
-        {
+        if known && super::opposite(self.f1, self.f2) {
             Some(self.ends())
         } else {
             None
@@ -384,16 +391,6 @@ fn split_point(a: f64, b: f64) -> f64 {
         c
     } else {
         m
-    }
-}
-
-/// The midpoint of [a, b], without overflow for ends near ±f64::MAX.
-pub(crate) fn midpoint(a: f64, b: f64) -> f64 {
-    let m = a + (b - a) / 2.0;
-    if m.is_finite() {
-        m
-    } else {
-        a / 2.0 + b / 2.0
     }
 }
 
@@ -440,6 +437,5 @@ mod tests {
         assert_eq!(split_point(0.0, 1.0), 0.5);
         // Ends near the largest float: no overflow.
         assert_eq!(split_point(-f64::MAX, f64::MAX), 0.0);
-        assert_eq!(midpoint(-f64::MAX, f64::MAX), 0.0);
     }
 }

@@ -1,5 +1,6 @@
 //! Illinois false position.
 
+use super::bracket::{midpoint, Gap, Sought, WallSeek};
 use crate::driver::{Ask, Context, Finish, ScalarMethod};
 use crate::outcome::{Status, StepKind};
 
@@ -20,6 +21,9 @@ use crate::outcome::{Status, StepKind};
 /// - Stops when the bracket is within 2·tol(u), when no float lies strictly between its
 ///   ends, on |f(u)| ≤ f_abs, or on f = 0 exactly; u, the end with the smaller |f|, is the
 ///   root returned.
+/// - A NaN inside the bracket is handled as in bisection ([`Gap`]): the defined
+///   stretches beside the undefined gap are halved until the bracket is free of it or
+///   its walls are located (a discontinuity, not a root).
 /// - Reference: M. Dowell, P. Jarratt, "A modified regula falsi method for computing the
 ///   root of an equation", BIT 11 (1971), pp. 168–174.
 #[derive(Debug, Clone)]
@@ -35,6 +39,9 @@ pub struct Illinois {
     side: i8,
     phase: u8,
     iterations: usize,
+    gap: Option<Gap>,
+    /// Searching in from an undefined end for a value of the other sign.
+    seek: Option<WallSeek>,
 }
 
 impl Illinois {
@@ -49,6 +56,8 @@ impl Illinois {
             side: 0,
             phase: 0,
             iterations: 0,
+            gap: None,
+            seek: None,
         }
     }
 
@@ -72,10 +81,24 @@ impl Illinois {
         }
         self.ga = self.fa;
         self.gb = self.fb;
+        if let Some(seek) = WallSeek::from_ends((self.a, self.fa), (self.b, self.fb)) {
+            self.seek = Some(seek);
+            return self.seek_next(ctx);
+        }
         if let Some(done) = super::check_bracket_ends((self.a, self.fa), (self.b, self.fb)) {
             return done;
         }
         self.next(ctx)
+    }
+
+    fn seek_next(&mut self, ctx: &Context) -> Ask {
+        let Some(seek) = self.seek else {
+            return self.next(ctx);
+        };
+        match seek.next_point(|m| ctx.tol.x_tol(m)) {
+            Some(m) => Ask::Eval(m, StepKind::Backtrack),
+            None => Finish::at(Status::NonFinite, seek.far, seek.f_far),
+        }
     }
 
     fn next(&mut self, ctx: &Context) -> Ask {
@@ -87,7 +110,13 @@ impl Illinois {
             return Finish::at(Status::ConvergedResidual, u, fu);
         }
         let (a, b) = (self.a, self.b);
-        let m = super::hybrid::midpoint(a, b);
+        if let Some(gap) = self.gap {
+            return match gap.next_point(a, b, |m| ctx.tol.x_tol(m)) {
+                Some(m) => Ask::Eval(m, StepKind::Backtrack),
+                None => Finish::at(Status::Discontinuity, u, fu),
+            };
+        }
+        let m = midpoint(a, b);
         let tol = ctx.tol.x_tol(u);
         if m <= a || m >= b || b - a <= 2.0 * tol {
             return Finish::at(Status::ConvergedStep, u, fu);
@@ -141,9 +170,27 @@ impl ScalarMethod for Illinois {
             }
             (_, Some((c, fc))) => {
                 self.iterations += 1;
+                if let Some(seek) = self.seek.as_mut() {
+                    match seek.tell(c, fc) {
+                        Sought::Continue => return self.seek_next(ctx),
+                        Sought::Zero(z) => return Finish::at(Status::ExactZero, z, 0.0),
+                        Sought::Bracket(p, q) => {
+                            self.seek = None;
+                            ((self.a, self.fa), (self.b, self.fb)) =
+                                if p.0 < q.0 { (p, q) } else { (q, p) };
+                            self.ga = self.fa;
+                            self.gb = self.fb;
+                            self.side = 0;
+                            return self.next(ctx);
+                        }
+                    }
+                }
                 if fc.is_nan() {
-                    let (x, fx) = self.best();
-                    return Finish::at(Status::NonFinite, x, fx);
+                    match self.gap.as_mut() {
+                        Some(g) => g.widen(c),
+                        None => self.gap = Some(Gap::at(c)),
+                    }
+                    return self.next(ctx);
                 }
                 // Infinite values keep their sign but would spoil the line: halve towards
                 // the midpoint by giving the line a finite stand-in.
@@ -169,6 +216,7 @@ impl ScalarMethod for Illinois {
                     }
                     self.side = 1;
                 }
+                self.gap = self.gap.and_then(|g| g.within(self.a, self.b));
                 self.next(ctx)
             }
             (_, None) => {
@@ -179,11 +227,7 @@ impl ScalarMethod for Illinois {
     }
 
     fn bracket(&self) -> Option<(f64, f64)> {
-        if self.phase >= 3
-            && self.fa.is_finite()
-            && self.fb.is_finite()
-            && self.fa.signum() != self.fb.signum()
-        {
+        if self.phase >= 3 && super::opposite(self.fa, self.fb) {
             Some((self.a, self.b))
         } else {
             None

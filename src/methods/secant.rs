@@ -20,7 +20,9 @@ use crate::outcome::{Status, StepKind};
 ///   Burden & Faires, *Numerical Analysis*, Algorithm 2.4.
 ///
 /// The returned root is the final, unevaluated estimate x3; the solution's residual is
-/// f(x2), at `residual_at = x2`.
+/// f(x2), at `residual_at = x2`. Its claim of convergence is checked by the driver like
+/// any other ([`crate::certificate`]): a step below tolerance where |f| has not shrunk
+/// (a minimum of |f| above zero, say) is not reported as converged.
 #[derive(Debug, Clone)]
 pub struct Secant {
     x1: f64,
@@ -82,6 +84,7 @@ impl ScalarMethod for Secant {
                 root: x3,
                 residual: f2,
                 residual_at: self.x2,
+                step: (x3 - self.x2).abs(),
             });
         }
         self.x1 = self.x2;

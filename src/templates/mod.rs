@@ -32,9 +32,9 @@ use std::sync::OnceLock;
 
 use serde::{Deserialize, Serialize};
 
-use crate::driver::Options;
 use crate::equations::{solve_set, EquationSet, Expression, SetSolution, UnknownSpec};
 use crate::error::InputError;
+use crate::methods::Options;
 use crate::roots_in_range::{roots_in_range, RootKind, ScanOptions};
 use crate::tolerances::Bounds;
 use crate::units;
@@ -921,7 +921,7 @@ fn nested_solve(
     let (a, b) = unknown
         .guesses
         .unwrap_or((unknown.bounds.lo, unknown.bounds.hi));
-    let sol = crate::driver::solve(crate::driver::Start::Guesses(a, b), &outer, |x| {
+    let sol = crate::stepper::solve(crate::methods::Start::Guesses(a, b), &outer, |x| {
         solve_aux(x).map_or(f64::NAN, |aux| residual(x, &aux))
     })?;
     if !sol.converged {
