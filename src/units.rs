@@ -12,6 +12,19 @@
 //! Temperature comes in two dimensions: `temperature` (a reading, with offsets: K, °C,
 //! °F, °R) and `temperature_difference` (an interval: K, Δ°C, Δ°F, Δ°R).
 //!
+//! **Conventions**, where a unit name has more than one meaning in use:
+//! - the foot, inch, yard and mile are the international ones (1 ft = 0.3048 m exactly),
+//!   and so is the acre (43 560 ft², 4046.8564224 m²): the U.S. survey foot was retired
+//!   on 2023-01-01 and no unit here is based on it;
+//! - the pound is the avoirdupois pound (0.45359237 kg), the pound-force its weight
+//!   under standard gravity 9.80665 m/s²;
+//! - the gallon is the U.S. liquid gallon (231 in³), not the imperial one;
+//! - the horsepower is the mechanical one (550 ft·lbf/s), not the metric or electric;
+//! - the Btu is the International Table Btu (1055.05585262 J);
+//! - a year is 365 days of 86 400 s (3.1536e7 s), not the Julian year of 365.25 days;
+//! - mmHg and ftH2O are the conventional ones of NIST SP 811;
+//! - pressures carry no gauge or absolute mark: a value is whatever the equation means.
+//!
 //! ```
 //! use tacit::units;
 //! let psi = units::convert(100.0, "kPa", "psi").unwrap();
@@ -46,6 +59,9 @@ const NIST: &str = "NIST SP 811 (2008) Appendix B.8";
 const NIST_TEMP: &str = "NIST SP 811 (2008) Appendix B.8 and B.9 (temperature formulas)";
 const DERIVED: &str =
     "derived from the exact definitions of its parts in NIST SP 811 (2008) Appendix B.8";
+const ACRE_SOURCE: &str =
+    "NIST Handbook 44, Appendix C: 1 acre = 43 560 ft^2, with the international \
+     foot of NIST SP 811 (2008) Appendix B.8 (the U.S. survey foot was retired on 2023-01-01)";
 
 // Exact definitions the factors are built from (NIST SP 811 (2008) Appendix B.8).
 const FT: f64 = 0.3048;
@@ -56,7 +72,9 @@ const LBF: f64 = LB * G_N;
 const BTU_IT: f64 = 1_055.055_852_62;
 const HOUR: f64 = 3600.0;
 const DAY: f64 = 86_400.0;
-const YEAR_365: f64 = 3.1536e7;
+/// The year is 365 days of 86 400 s (NIST SP 811 (2008) B.8, "year (365 days)"): the
+/// calendar year of engineering practice, not the Julian year of 365.25 days.
+const YEAR_365: f64 = 365.0 * DAY;
 const GAL_US: f64 = 231.0 * IN * IN * IN;
 const DEG_F: f64 = 5.0 / 9.0;
 
@@ -96,7 +114,9 @@ pub static UNITS: &[Unit] = &[
     u("ha", &["hectare"], "area", 1e4, TABLE8),
     u("in^2", &["in2", "in²", "sq in"], "area", IN * IN, NIST),
     u("ft^2", &["ft2", "ft²", "sq ft"], "area", FT * FT, NIST),
-    u("acre", &["ac"], "area", 4.046_873e3, NIST),
+    // The international acre, 4046.8564224 m^2 exactly; the survey acre (4046.873 m^2)
+    // disagreed with the international foot above by 2 parts per million.
+    u("acre", &["ac"], "area", 43_560.0 * FT * FT, ACRE_SOURCE),
     // volume
     u("m^3", &["m3", "m³"], "volume", 1.0, SI),
     u("L", &["l", "litre", "liter"], "volume", 1e-3, TABLE8),
@@ -252,6 +272,7 @@ pub static UNITS: &[Unit] = &[
     u("min", &[], "time", 60.0, TABLE8),
     u("h", &["hr", "hour"], "time", HOUR, TABLE8),
     u("d", &["day"], "time", DAY, TABLE8),
+    // 365 days: see YEAR_365.
     u("yr", &["year", "a"], "time", YEAR_365, NIST),
     // frequency
     u("Hz", &[], "frequency", 1.0, SI),
