@@ -12,6 +12,7 @@ pub mod api;
 #[cfg(target_arch = "wasm32")]
 pub mod bindings;
 pub mod broyden;
+pub mod dimension;
 pub mod driver;
 pub mod equations;
 pub mod error;

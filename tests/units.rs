@@ -468,6 +468,8 @@ const EXPECTED: &[(&str, &str, f64, bool, &str)] = &[
         false,
         "derived: NIST ft^3 / (1000 NIST lb)",
     ),
+    ("mol", "amount_of_substance", 1.0, true, "SI"),
+    ("kmol", "amount_of_substance", 1e3, true, "SI Table 7"),
     ("s/m^(1/3)", "manning_n", 1.0, true, "SI"),
     ("1", "dimensionless", 1.0, true, "SI"),
     ("%", "dimensionless", 0.01, true, "SI Brochure 5.4.7"),
