@@ -198,6 +198,19 @@ proptest! {
     }
 }
 
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(1000))]
+
+    /// A text with no units (none given, none on its numbers) always passes the
+    /// dimension check, which is why a request without units skips it.
+    #[test]
+    fn texts_without_units_pass_the_dimension_check(a in expression(), b in expression()) {
+        let set = EquationSet::parse(&format!("d := {b}\n{a} = d*x")).unwrap();
+        let r = tacit::equations::dimensions::check(&set, &Default::default(), &[]);
+        prop_assert!(r.is_ok(), "{a} = {b}: {:?}", r.err());
+    }
+}
+
 #[test]
 fn long_legal_inputs_are_read_and_solved_without_deep_recursion() {
     // Near the size limit, shapes that would overflow a recursive parser or compiler:

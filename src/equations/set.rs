@@ -210,6 +210,15 @@ impl EquationSet {
         &self.statements[i]
     }
 
+    /// Whether some number in the text is written with a unit (`9.8[m/s^2]`).
+    pub fn has_numbers_with_units(&self) -> bool {
+        self.statements.iter().any(|s| {
+            s.tokens
+                .iter()
+                .any(|t| matches!(t.tok, parse::Tok::Quantity(_)))
+        })
+    }
+
     /// The definition statements in dependency order.
     pub(crate) fn definitions_in_order(&self) -> impl Iterator<Item = &Statement> {
         self.definition_order.iter().map(|&i| &self.statements[i])
