@@ -167,6 +167,12 @@ export interface EquationRequest {
   knowns?: Readonly<Record<string, number>>;
   /** The unknowns (names, or specs with guesses and bounds). Omitted: every variable not in `knowns`. */
   unknowns?: ReadonlyArray<string | UnknownSpec>;
+  /**
+   * Units by name (variables and definitions), such as `{ D: "in", Q: "gpm" }`: values,
+   * guesses, bounds and results are in these units, the dimensions are checked, and the
+   * solve runs in SI. A mismatch throws a TacitError with code `dimension-mismatch`.
+   */
+  units?: Readonly<Record<string, string>>;
   method?: MethodName;
   tolerances?: Tolerances;
   history?: boolean;
@@ -204,6 +210,8 @@ export interface EquationResult extends SolveOutcome {
   sensitivityEvaluations: number;
   /** The blocks the set was split into, in the order solved. */
   blocks: BlockReport[];
+  /** The units of the request, when it gave any. */
+  units?: Record<string, string>;
 }
 
 /** A given value of a template, in a unit of its dimension. */

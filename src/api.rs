@@ -14,6 +14,7 @@
 use serde_json::{json, Map, Value};
 
 use crate::broyden;
+use crate::equations::quantities::{self, VariableUnits};
 use crate::equations::system::SystemHistoryRow;
 use crate::equations::{self, EquationSet, SetSolution, UnknownSpec};
 use crate::roots_in_range::{self, RangeRoots, ScanOptions};
@@ -764,18 +765,39 @@ pub fn set_solution_value(s: &SetSolution) -> Value {
     })
 }
 
-const EQUATION_FIELDS: [&str; 7] = [
+const EQUATION_FIELDS: [&str; 8] = [
     "equations",
     "knowns",
     "unknowns",
+    "units",
     "method",
     "tolerances",
     "history",
     "sensitivities",
 ];
 
-/// Solves a text equation or set: `{equations, knowns?, unknowns?, method?, tolerances?,
-/// history?, sensitivities?}`.
+/// `{name: unit text}`, names kept in the order given.
+fn unit_map(f: &Fields, key: &str) -> Result<Vec<(String, String)>, InputError> {
+    let Some(obj) = f.object(key)? else {
+        return Ok(Vec::new());
+    };
+    obj.map
+        .iter()
+        .map(|(name, v)| match v {
+            Value::String(unit) => Ok((name.clone(), unit.clone())),
+            other => Err(bad(format!(
+                "{} must be a unit such as \"m\" or \"gpm\", got {}",
+                obj.at(name),
+                describe(other)
+            ))),
+        })
+        .collect()
+}
+
+/// Solves a text equation or set: `{equations, knowns?, unknowns?, units?, method?,
+/// tolerances?, history?, sensitivities?}`. With `units` (`{name: unit}`), values,
+/// guesses and bounds are in those units, the dimensions are checked, the solve runs
+/// in SI and the results come back in those units (see `equations::quantities`).
 pub fn solve_equation(request: &str) -> Result<String, InputError> {
     let map = parse_request(request)?;
     let f = Fields::new(&map, "request");
@@ -784,14 +806,27 @@ pub fn solve_equation(request: &str) -> Result<String, InputError> {
     let knowns = f.number_map("knowns")?;
     let unknowns = read_unknowns(&f, &set, &knowns)?;
     let options = read_options(&f, None)?;
-    let solution = equations::solve_set(
+    let units = unit_map(&f, "units")?;
+    let named: Vec<&str> = knowns
+        .iter()
+        .map(|(n, _)| n.as_str())
+        .chain(unknowns.iter().map(|u| u.name.as_str()))
+        .collect();
+    let checked = VariableUnits::new(&set, &units, &named)?;
+    let solution = quantities::solve_in_units(
         &set,
         &knowns,
         &unknowns,
         &options,
         f.boolean("sensitivities")?,
+        &checked,
     )?;
-    Ok(text_of(set_solution_value(&solution)))
+    let mut value = set_solution_value(&solution);
+    if let (Value::Object(out), false) = (&mut value, units.is_empty()) {
+        let echo = units.into_iter().map(|(n, u)| (n, Value::String(u)));
+        out.insert("units".into(), Value::Object(echo.collect()));
+    }
+    Ok(text_of(value))
 }
 
 // ---------------------------------------------------------------------------------------

@@ -15,6 +15,7 @@ pub mod api;
 pub mod bindings;
 pub mod broyden;
 pub mod certificate;
+pub mod dimension;
 pub mod driver;
 pub mod equations;
 pub mod error;

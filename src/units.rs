@@ -12,6 +12,19 @@
 //! Temperature comes in two dimensions: `temperature` (a reading, with offsets: K, °C,
 //! °F, °R) and `temperature_difference` (an interval: K, Δ°C, Δ°F, Δ°R).
 //!
+//! **Conventions**, where a unit name has more than one meaning in use:
+//! - the foot, inch, yard and mile are the international ones (1 ft = 0.3048 m exactly),
+//!   and so is the acre (43 560 ft², 4046.8564224 m²): the U.S. survey foot was retired
+//!   on 2023-01-01 and no unit here is based on it;
+//! - the pound is the avoirdupois pound (0.45359237 kg), the pound-force its weight
+//!   under standard gravity 9.80665 m/s²;
+//! - the gallon is the U.S. liquid gallon (231 in³), not the imperial one;
+//! - the horsepower is the mechanical one (550 ft·lbf/s), not the metric or electric;
+//! - the Btu is the International Table Btu (1055.05585262 J);
+//! - a year is 365 days of 86 400 s (3.1536e7 s), not the Julian year of 365.25 days;
+//! - mmHg and ftH2O are the conventional ones of NIST SP 811;
+//! - pressures carry no gauge or absolute mark: a value is whatever the equation means.
+//!
 //! ```
 //! use tacit::units;
 //! let psi = units::convert(100.0, "kPa", "psi").unwrap();
@@ -20,6 +33,7 @@
 //! assert!(units::convert(1.0, "m", "kg").is_err());
 //! ```
 
+use crate::dimension::{Dimension, Ratio};
 use crate::error::{require_finite, InputError};
 use std::collections::HashMap;
 use std::sync::OnceLock;
@@ -46,6 +60,9 @@ const NIST: &str = "NIST SP 811 (2008) Appendix B.8";
 const NIST_TEMP: &str = "NIST SP 811 (2008) Appendix B.8 and B.9 (temperature formulas)";
 const DERIVED: &str =
     "derived from the exact definitions of its parts in NIST SP 811 (2008) Appendix B.8";
+const ACRE_SOURCE: &str =
+    "NIST Handbook 44, Appendix C: 1 acre = 43 560 ft^2, with the international \
+     foot of NIST SP 811 (2008) Appendix B.8 (the U.S. survey foot was retired on 2023-01-01)";
 
 // Exact definitions the factors are built from (NIST SP 811 (2008) Appendix B.8).
 const FT: f64 = 0.3048;
@@ -56,7 +73,9 @@ const LBF: f64 = LB * G_N;
 const BTU_IT: f64 = 1_055.055_852_62;
 const HOUR: f64 = 3600.0;
 const DAY: f64 = 86_400.0;
-const YEAR_365: f64 = 3.1536e7;
+/// The year is 365 days of 86 400 s (NIST SP 811 (2008) B.8, "year (365 days)"): the
+/// calendar year of engineering practice, not the Julian year of 365.25 days.
+const YEAR_365: f64 = 365.0 * DAY;
 const GAL_US: f64 = 231.0 * IN * IN * IN;
 const DEG_F: f64 = 5.0 / 9.0;
 
@@ -96,7 +115,9 @@ pub static UNITS: &[Unit] = &[
     u("ha", &["hectare"], "area", 1e4, TABLE8),
     u("in^2", &["in2", "in²", "sq in"], "area", IN * IN, NIST),
     u("ft^2", &["ft2", "ft²", "sq ft"], "area", FT * FT, NIST),
-    u("acre", &["ac"], "area", 4.046_873e3, NIST),
+    // The international acre, 4046.8564224 m^2 exactly; the survey acre (4046.873 m^2)
+    // disagreed with the international foot above by 2 parts per million.
+    u("acre", &["ac"], "area", 43_560.0 * FT * FT, ACRE_SOURCE),
     // volume
     u("m^3", &["m3", "m³"], "volume", 1.0, SI),
     u("L", &["l", "litre", "liter"], "volume", 1e-3, TABLE8),
@@ -252,6 +273,7 @@ pub static UNITS: &[Unit] = &[
     u("min", &[], "time", 60.0, TABLE8),
     u("h", &["hr", "hour"], "time", HOUR, TABLE8),
     u("d", &["day"], "time", DAY, TABLE8),
+    // 365 days: see YEAR_365.
     u("yr", &["year", "a"], "time", YEAR_365, NIST),
     // frequency
     u("Hz", &[], "frequency", 1.0, SI),
@@ -497,6 +519,9 @@ pub static UNITS: &[Unit] = &[
         0.01,
         "SI Brochure (9th ed., 2019) 5.4.7",
     ),
+    // amount of substance (for compound units such as J/(mol*K))
+    u("mol", &["mole"], "amount_of_substance", 1.0, SI),
+    u("kmol", &[], "amount_of_substance", 1e3, PREFIX),
     // money: no conversion between currencies
     u("currency", &[], "money", 1.0, "common practice, no source"),
 ];
@@ -686,4 +711,362 @@ pub fn convert(value: f64, from: &str, to: &str) -> Result<f64, InputError> {
             tos[0].dimension.replace('_', " ")
         ),
     ))
+}
+
+/// The dimension of a row of the table (its dimension name in [`crate::dimension::NAMED`]).
+pub fn dimension_of(unit: &Unit) -> Result<Dimension, InputError> {
+    Dimension::named(unit.dimension).ok_or_else(|| {
+        InputError::new(
+            "unknown-dimension",
+            format!(
+                "the unit {} has a dimension, {}, with no exponents",
+                unit.symbol, unit.dimension
+            ),
+        )
+    })
+}
+
+/// A unit as written: one unit of the table, or a product and quotient of table units
+/// with powers (`kg*m/s^2`, `W/(m^2*K)`, `s/m^(1/3)`, `lbf*s^2/ft`).
+///
+/// `si = value * factor + offset`. The offset is non-zero only for a temperature
+/// reading written alone (`degC`, `°F`); inside a compound unit a temperature unit is an
+/// interval (`W/(m^2*°C)` is `W/(m^2*K)`), as the SI Brochure (9th ed., 2019, 2.3.1)
+/// writes derived units with the degree Celsius.
+#[derive(Debug, Clone, PartialEq)]
+pub struct UnitExpression {
+    /// The text as given.
+    pub text: String,
+    pub factor: f64,
+    pub offset: f64,
+    pub dimension: Dimension,
+    /// The table's dimension name when the text is one unit of the table.
+    pub dimension_name: Option<&'static str>,
+}
+
+impl UnitExpression {
+    /// `value` in this unit, in SI.
+    pub fn to_si(&self, value: f64) -> f64 {
+        value * self.factor + self.offset
+    }
+
+    /// A value in SI, in this unit.
+    pub fn from_si(&self, value: f64) -> f64 {
+        (value - self.offset) / self.factor
+    }
+}
+
+/// The longest unit text read, in characters.
+pub const MAX_UNIT_CHARS: usize = 200;
+
+fn unit_error(code: &'static str, message: String, position: usize) -> InputError {
+    InputError::at(code, message, position)
+}
+
+/// Reads a unit: a symbol of the table (any spelling it accepts), or else a product
+/// and quotient of them. Grammar: units joined by `*` (or `·`) and at most one `/` per
+/// level of parentheses, which ends the level (write `W/(m^2*K)`, not `W/m^2/K` or
+/// `J/kg*K`: those are ambiguous); a power after a unit or a parenthesis: `^2`, `^-1`,
+/// `^0.5`, `^(1/3)`, `²`. Errors carry the character position within `text`.
+///
+/// ```
+/// use tacit::units::parse_unit;
+/// let g = parse_unit("ft/s^2").unwrap();
+/// assert_eq!(g.factor, 0.3048);
+/// let r = parse_unit("J/(mol*K)").unwrap();
+/// assert_eq!(r.dimension.in_words(), "m^2·kg·s^-2·K^-1·mol^-1");
+/// assert_eq!(parse_unit("degC").unwrap().offset, 273.15);
+/// let e = parse_unit("kg*furlong").unwrap_err();
+/// assert_eq!((e.code, e.position), ("unknown-unit", Some(3)));
+/// ```
+pub fn parse_unit(text: &str) -> Result<UnitExpression, InputError> {
+    let n = text.chars().count();
+    if n > MAX_UNIT_CHARS {
+        return Err(unit_error(
+            "unit-too-long",
+            format!("the unit is {n} characters long; the limit is {MAX_UNIT_CHARS}"),
+            0,
+        ));
+    }
+    if text.trim().is_empty() {
+        return Err(unit_error(
+            "empty-unit",
+            "the unit is empty: write one such as m, kPa or m^3/s (1 for a pure number)".into(),
+            0,
+        ));
+    }
+    if let Some(row) = lookup(text).first() {
+        return Ok(UnitExpression {
+            text: text.to_string(),
+            factor: row.factor,
+            offset: row.offset,
+            dimension: dimension_of(row)?,
+            dimension_name: Some(row.dimension),
+        });
+    }
+    let (factor, dimension) = compound(text)?;
+    if !(factor.is_finite() && factor > 0.0) {
+        return Err(unit_error(
+            "bad-unit",
+            format!("the unit `{text}` is too large or too small to use"),
+            0,
+        ));
+    }
+    Ok(UnitExpression {
+        text: text.to_string(),
+        factor,
+        offset: 0.0,
+        dimension,
+        dimension_name: None,
+    })
+}
+
+/// One level of parentheses while reading a compound unit.
+struct Level {
+    factor: f64,
+    dimension: Dimension,
+    /// Position of its `(` (0 for the whole text).
+    open: usize,
+    /// A `/` was seen on this level: nothing more may follow the next unit.
+    divided: bool,
+    /// The next operand divides.
+    next_divides: bool,
+    /// An operand is expected (at the start and after an operator).
+    want_operand: bool,
+}
+
+impl Level {
+    fn new(open: usize) -> Level {
+        Level {
+            factor: 1.0,
+            dimension: Dimension::NONE,
+            open,
+            divided: false,
+            next_divides: false,
+            want_operand: true,
+        }
+    }
+}
+
+fn is_unit_char(c: char) -> bool {
+    !(c.is_whitespace() || "*/^()·⋅²³⁴[]".contains(c))
+}
+
+fn overflow(text: &str, at: usize) -> InputError {
+    unit_error(
+        "bad-unit",
+        format!("the powers in the unit `{text}` are too large"),
+        at,
+    )
+}
+
+/// A product and quotient of table units with powers: (factor, dimension).
+fn compound(text: &str) -> Result<(f64, Dimension), InputError> {
+    let chars: Vec<char> = text.chars().collect();
+    let mut levels = vec![Level::new(0)];
+    // The operand just read (a unit or a closed parenthesis), waiting for a power.
+    let mut pending: Option<(f64, Dimension, usize)> = None;
+    let mut i = 0;
+    let combine = |levels: &mut Vec<Level>, p: (f64, Dimension, usize)| -> Result<(), InputError> {
+        let Some(level) = levels.last_mut() else {
+            return Ok(());
+        };
+        let (f, d, at) = p;
+        if level.next_divides {
+            level.factor /= f;
+            level.dimension = level.dimension.div(&d).ok_or_else(|| overflow(text, at))?;
+        } else {
+            level.factor *= f;
+            level.dimension = level.dimension.mul(&d).ok_or_else(|| overflow(text, at))?;
+        }
+        level.want_operand = false;
+        Ok(())
+    };
+    while i < chars.len() {
+        let c = chars[i];
+        match c {
+            c if c.is_whitespace() => i += 1,
+            '(' => {
+                if pending.is_some() {
+                    return Err(missing_operator(text, i));
+                }
+                levels.push(Level::new(i));
+                i += 1;
+            }
+            ')' => {
+                if let Some(p) = pending.take() {
+                    combine(&mut levels, p)?;
+                }
+                if levels.len() < 2 {
+                    return Err(unit_error(
+                        "bad-unit",
+                        format!("in the unit `{text}`, this `)` has no matching `(`"),
+                        i,
+                    ));
+                }
+                let Some(level) = levels.pop() else {
+                    return Err(overflow(text, i));
+                };
+                if level.want_operand {
+                    return Err(missing_unit(text, i));
+                }
+                pending = Some((level.factor, level.dimension, level.open));
+                i += 1;
+            }
+            '*' | '·' | '⋅' | '/' => {
+                match pending.take() {
+                    Some(p) => combine(&mut levels, p)?,
+                    None => return Err(missing_unit(text, i)),
+                }
+                let Some(level) = levels.last_mut() else {
+                    return Err(overflow(text, i));
+                };
+                if level.divided {
+                    return Err(unit_error(
+                        "ambiguous-unit",
+                        format!(
+                            "in the unit `{text}`, `{c}` follows a `/` on the same level, which \
+                             reads two ways; group with parentheses, as in W/(m^2*K)"
+                        ),
+                        i,
+                    ));
+                }
+                level.divided = c == '/';
+                level.next_divides = c == '/';
+                level.want_operand = true;
+                i += 1;
+            }
+            '^' | '²' | '³' | '⁴' => {
+                let Some((f, d, at)) = pending.take() else {
+                    return Err(unit_error(
+                        "bad-unit",
+                        format!("in the unit `{text}`, a power must follow a unit"),
+                        i,
+                    ));
+                };
+                let (e, next) = match c {
+                    '²' => (Ratio::integer(2), i + 1),
+                    '³' => (Ratio::integer(3), i + 1),
+                    '⁴' => (Ratio::integer(4), i + 1),
+                    _ => exponent(text, &chars, i)?,
+                };
+                let d = d.pow(e).ok_or_else(|| overflow(text, i))?;
+                let f = match e.as_integer().and_then(|k| i32::try_from(k).ok()) {
+                    Some(k) => f.powi(k),
+                    None => f.powf(e.to_f64()),
+                };
+                pending = Some((f, d, at));
+                i = next;
+            }
+            '[' | ']' => {
+                return Err(unit_error(
+                    "bad-unit",
+                    format!("`{c}` cannot appear inside a unit"),
+                    i,
+                ))
+            }
+            _ => {
+                let start = i;
+                while i < chars.len() && is_unit_char(chars[i]) {
+                    i += 1;
+                }
+                if pending.is_some() {
+                    return Err(missing_operator(text, start));
+                }
+                let name: String = chars[start..i].iter().collect();
+                let Some(row) = lookup(&name).into_iter().next() else {
+                    let hint = if name.chars().all(|c| c.is_ascii_digit() || c == '.') {
+                        " (a number is not a unit: write the number before the brackets)"
+                    } else {
+                        ""
+                    };
+                    return Err(unit_error(
+                        "unknown-unit",
+                        format!("unknown unit `{name}` in `{text}`{hint}; units are written as in the unit table, for example m, kPa, ft^3/s, degC"),
+                        start,
+                    ));
+                };
+                // Inside a compound unit a temperature is an interval: no offset.
+                pending = Some((row.factor, dimension_of(row)?, start));
+            }
+        }
+    }
+    if let Some(p) = pending.take() {
+        combine(&mut levels, p)?;
+    }
+    if levels.len() > 1 {
+        let open = levels.last().map_or(0, |l| l.open);
+        return Err(unit_error(
+            "bad-unit",
+            format!("in the unit `{text}`, this `(` is never closed"),
+            open,
+        ));
+    }
+    match levels.pop() {
+        Some(level) if !level.want_operand => Ok((level.factor, level.dimension)),
+        _ => Err(missing_unit(text, chars.len())),
+    }
+}
+
+fn missing_unit(text: &str, at: usize) -> InputError {
+    unit_error(
+        "bad-unit",
+        format!("in the unit `{text}`, a unit is missing here"),
+        at,
+    )
+}
+
+fn missing_operator(text: &str, at: usize) -> InputError {
+    unit_error(
+        "bad-unit",
+        format!(
+            "in the unit `{text}`, an operator is missing here: write * for a product, as in kN*m"
+        ),
+        at,
+    )
+}
+
+/// Reads the power after `^` at `at`: `2`, `-1`, `0.5`, `(1/3)`, `(-2/3)`; returns it and
+/// the position after it.
+fn exponent(text: &str, chars: &[char], at: usize) -> Result<(Ratio, usize), InputError> {
+    let bad = || {
+        unit_error(
+            "bad-unit",
+            format!("in the unit `{text}`, a power is written ^2, ^-1, ^0.5 or ^(1/3)"),
+            at,
+        )
+    };
+    let mut i = at + 1;
+    let grouped = chars.get(i) == Some(&'(');
+    if grouped {
+        i += 1;
+    }
+    let number = |i: &mut usize| -> Option<Ratio> {
+        let start = *i;
+        if matches!(chars.get(*i), Some('-') | Some('+')) {
+            *i += 1;
+        }
+        while matches!(chars.get(*i), Some(c) if c.is_ascii_digit() || *c == '.') {
+            *i += 1;
+        }
+        let s: String = chars[start..*i].iter().collect();
+        let (sign, digits) = match s.strip_prefix('-') {
+            Some(rest) => (-1, rest),
+            None => (1, s.trim_start_matches('+')),
+        };
+        Ratio::from_decimal(digits)?.checked_mul(Ratio::integer(sign))
+    };
+    let mut e = number(&mut i).ok_or_else(bad)?;
+    if grouped {
+        if chars.get(i) == Some(&'/') {
+            i += 1;
+            let d = number(&mut i).ok_or_else(bad)?;
+            e = e.checked_div(d).ok_or_else(bad)?;
+        }
+        if chars.get(i) != Some(&')') {
+            return Err(bad());
+        }
+        i += 1;
+    }
+    Ok((e, i))
 }

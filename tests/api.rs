@@ -369,6 +369,77 @@ fn equation_requests_are_checked() {
 }
 
 #[test]
+fn solve_equation_in_units() {
+    // Q = V*A for the velocity of 100 gpm in a 4-inch bore, in ft/s: 100 gal/min is
+    // 100*231/60 in³/s (NIST SP 811 B.8: 1 gal = 231 in³), over pi*2² in², over 12 in/ft.
+    let request = r#"{
+        "equations": "A := pi*D^2/4\nQ = V*A",
+        "knowns": {"Q": 100, "D": 4},
+        "units": {"Q": "gpm", "D": "in", "V": "ft/s", "A": "in^2"},
+        "unknowns": [{"name": "V", "guesses": [1, 3], "bounds": [0, 100]}],
+        "history": true
+    }"#;
+    let out = parse(&api::solve_equation(request).unwrap());
+    let v = 100.0 * 231.0 / 60.0 / (std::f64::consts::PI * 4.0) / 12.0;
+    assert!(
+        (f64_of(&out["unknowns"]["V"]) - v).abs() < 1e-12 * v,
+        "{out}"
+    );
+    assert_eq!(out["root"], out["unknowns"]["V"]);
+    let a = f64_of(&out["definitions"]["A"]);
+    assert!(
+        (a - 4.0 * std::f64::consts::PI).abs() < 1e-12,
+        "A = {a} in²"
+    );
+    assert_eq!(f64_of(&out["history"][0]["x"]), 1.0, "history in ft/s");
+    assert_eq!(out["units"]["V"], "ft/s");
+
+    // A dimension mismatch names both sides and the place.
+    let e = api::solve_equation(
+        r#"{"equations":"hf = Q","knowns":{"Q":1},"units":{"hf":"ft","Q":"gpm"}}"#,
+    )
+    .err()
+    .unwrap();
+    assert_eq!((e.code, e.position), ("dimension-mismatch", Some(3)));
+    assert_eq!(
+        e.message,
+        "left side is a length, right side is a volume flow; at 3"
+    );
+    let e = api::solve_equation(r#"{"equations":"y = exp(L)","knowns":{"L":1},"units":{"L":"m"}}"#)
+        .err()
+        .unwrap();
+    assert_eq!((e.code, e.position), ("dimensionless-argument", Some(4)));
+    // A number with a unit needs no `units` at all; a wrong one is caught without them.
+    let out = parse(&api::solve_equation(r#"{"equations":"x = 2[ft] + 6[in]"}"#).unwrap());
+    assert!((f64_of(&out["root"]) - 0.762).abs() < 1e-15);
+    let e = api::solve_equation(r#"{"equations":"x = 2[ft] + 6[s]"}"#)
+        .err()
+        .unwrap();
+    assert_eq!((e.code, e.position), ("dimension-mismatch", Some(10)));
+    // Bad `units` fields.
+    check_error(
+        api::solve_equation(r#"{"equations":"y = x","knowns":{"x":1},"units":{"x":3}}"#),
+        "bad-request",
+        &["request.units.x"],
+    );
+    check_error(
+        api::solve_equation(r#"{"equations":"y = x","knowns":{"x":1},"units":["m"]}"#),
+        "bad-request",
+        &["request.units"],
+    );
+    check_error(
+        api::solve_equation(r#"{"equations":"y = x","knowns":{"x":1},"units":{"x":"cubit"}}"#),
+        "unknown-unit",
+        &["`x`", "cubit"],
+    );
+    check_error(
+        api::solve_equation(r#"{"equations":"y = x","knowns":{"x":1},"units":{"q":"m"}}"#),
+        "unknown-variable",
+        &["`q`"],
+    );
+}
+
+#[test]
 fn check_equation_reports_variables_or_a_positioned_error() {
     let ok = parse(&api::check_equation("A := pi*D^2/4\nQ = V*A"));
     assert_eq!(ok["ok"], true);

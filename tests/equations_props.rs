@@ -24,7 +24,17 @@ fn read_every_way(text: &str) {
             let _ = p.eval(&vec![0.5; refs.len()]);
         }
     }
+    let _ = tacit::units::parse_unit(text);
     if let Ok(set) = EquationSet::parse(text) {
+        // The dimension check, with some names given dimensions.
+        let mut given = std::collections::HashMap::new();
+        for (name, d) in [("x", "length"), ("y", "time"), ("z", "manning_n")] {
+            given.insert(
+                name.to_string(),
+                tacit::dimension::Dimension::named(d).unwrap(),
+            );
+        }
+        let _ = tacit::equations::dimensions::check(&set, &given, &[]);
         let vars = set.variables();
         if let Some((first, rest)) = vars.split_first() {
             let knowns: Vec<(String, f64)> = rest.iter().map(|v| (v.clone(), 1.5)).collect();
@@ -55,14 +65,14 @@ proptest! {
 
     #[test]
     fn strings_of_the_language_alphabet_are_ok_or_err(
-        text in "[a-z0-9 .+\\-*/%^(),=:;#\n\t]{0,120}"
+        text in "[a-zSI0-9 .+\\-*/%^(),=:;#\n\t\\[\\]°²]{0,120}"
     ) {
         read_every_way(&text);
     }
 
     #[test]
     fn near_miss_texts_are_ok_or_err(
-        text in "(x|y|e|pi|sin\\(|hypot\\(|npv\\(|when\\(|\\(|\\)|,|\\+|-|\\*|/|\\^|=|:=|;|\\.5|2e|1e3| ){0,40}"
+        text in "(x|y|e|pi|sin\\(|hypot\\(|npv\\(|when\\(|\\(|\\)|,|\\+|-|\\*|/|\\^|=|:=|;|\\.5|2e|1e3| |SI:|\\[|\\]|\\[m\\]|\\[degC\\]|\\[m/s\\^\\(1/3\\)\\]|\\[ft\\*lbf/s\\]){0,40}"
     ) {
         read_every_way(&text);
     }
@@ -185,6 +195,19 @@ proptest! {
             let got = f(x);
             prop_assert!(same(got, reference), "{text}: compiled {got:e}, meval {reference:e}");
         }
+    }
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(1000))]
+
+    /// A text with no units (none given, none on its numbers) always passes the
+    /// dimension check, which is why a request without units skips it.
+    #[test]
+    fn texts_without_units_pass_the_dimension_check(a in expression(), b in expression()) {
+        let set = EquationSet::parse(&format!("d := {b}\n{a} = d*x")).unwrap();
+        let r = tacit::equations::dimensions::check(&set, &Default::default(), &[]);
+        prop_assert!(r.is_ok(), "{a} = {b}: {:?}", r.err());
     }
 }
 

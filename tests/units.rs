@@ -1,5 +1,13 @@
-//! Unit conversion: every factor of the table against the value NIST lists, and the
+//! Unit conversion: every unit of the table round-trips through SI at the factor NIST
+//! lists, US customary units agree with the international foot and pound, and the
 //! errors for unknown and incompatible units.
+//!
+//! The acre is the international acre: NIST Handbook 44, Appendix C (General Tables of
+//! Units of Measurement) defines 1 acre = 43 560 ft², and with the international foot
+//! (0.3048 m, NIST SP 811 B.8) that is 4046.8564224 m² exactly. SP 811 (2008) lists only
+//! the survey acre (4.046 873 E+03), based on the U.S. survey foot that NIST and NOAA
+//! retired on 2023-01-01 (Federal Register 85 FR 62698, 2020; the citation is recalled
+//! from memory).
 //!
 //! Expected factors are typed from NIST SP 811 (2008) Appendix B.8 ("Factors for units
 //! listed alphabetically"), which lists seven significant figures and marks exact
@@ -32,9 +40,9 @@ const EXPECTED: &[(&str, &str, f64, bool, &str)] = &[
     (
         "acre",
         "area",
-        4.046873e3,
-        false,
-        "NIST B.8 acre (based on U.S. survey foot)",
+        4.0468564224e3,
+        true,
+        "NIST HB 44 Appendix C: 1 acre = 43 560 ft^2, international foot (survey foot retired 2023)",
     ),
     ("m^3", "volume", 1.0, true, "SI"),
     ("L", "volume", 1e-3, true, "SI Table 8 litre"),
@@ -460,6 +468,8 @@ const EXPECTED: &[(&str, &str, f64, bool, &str)] = &[
         false,
         "derived: NIST ft^3 / (1000 NIST lb)",
     ),
+    ("mol", "amount_of_substance", 1.0, true, "SI"),
+    ("kmol", "amount_of_substance", 1e3, true, "SI Table 7"),
     ("s/m^(1/3)", "manning_n", 1.0, true, "SI"),
     ("1", "dimensionless", 1.0, true, "SI"),
     ("%", "dimensionless", 0.01, true, "SI Brochure 5.4.7"),
@@ -477,20 +487,66 @@ fn agrees(got: f64, want: f64, exact: bool) -> bool {
     }
 }
 
+/// The offset of a reading unit, typed from NIST SP 811 (2008) B.9:
+/// T/K = t/°C + 273.15 and T/K = (t/°F + 459.67)/1.8.
+const OFFSETS: &[(&str, f64, &str)] = &[
+    ("°C", 273.15, "NIST B.9 T/K = t/°C + 273.15"),
+    ("°F", 459.67 / 1.8, "NIST B.9 T/K = (t/°F + 459.67)/1.8"),
+];
+
+/// Every unit of the table, through SI and back: `x` units are `x * factor + offset`
+/// in SI with the factor typed from its source, and that SI value comes back as `x`.
 #[test]
-fn every_factor_matches_nist() {
+fn every_unit_round_trips_through_si_at_the_nist_factor() {
     let mut missing = Vec::new();
     for unit in UNITS {
-        match EXPECTED
+        let Some(&(s, d, want, exact, source)) = EXPECTED
             .iter()
             .find(|(s, d, ..)| *s == unit.symbol && *d == unit.dimension)
-        {
-            None => missing.push(format!("{} ({})", unit.symbol, unit.dimension)),
-            Some(&(s, _, want, exact, source)) => assert!(
-                agrees(unit.factor, want, exact),
-                "{s}: factor {} but {source} lists {want}",
-                unit.factor
-            ),
+        else {
+            missing.push(format!("{} ({})", unit.symbol, unit.dimension));
+            continue;
+        };
+        let offset = OFFSETS
+            .iter()
+            .find(|(o, ..)| *o == s && d == "temperature")
+            .map_or(0.0, |&(_, o, _)| o);
+        for x in [1.0, 12.345, -3.5] {
+            // To SI: the factor implied by the conversion is the listed one.
+            let si = units::to_si_in(x, s, d).unwrap();
+            let expected_si = x * want + offset;
+            // (With an offset, compare the SI values: subtracting it loses bits.)
+            let to_ok = if offset != 0.0 && exact {
+                (si - expected_si).abs() <= 1e-14 * expected_si.abs()
+            } else {
+                agrees((si - offset) / x, want, exact)
+            };
+            assert!(
+                to_ok,
+                "{s} ({d}): {x} {s} is {si} in SI but {source} gives {expected_si}"
+            );
+            // From SI: the listed SI value of x units comes back as x (to the figures
+            // listed), so the factor implied on the way back is the listed one too.
+            let back = units::from_si_in(expected_si, s, d).unwrap();
+            let from_ok = if offset != 0.0 && exact {
+                (back - x).abs() <= 1e-12 * x.abs()
+            } else {
+                agrees(want * x / back, want, exact)
+            };
+            assert!(
+                from_ok,
+                "{s} ({d}): {expected_si} in SI is {back} {s}, not {x} ({source})"
+            );
+            let again = units::from_si_in(si, s, d).unwrap();
+            assert!((again - x).abs() <= 1e-12 * x.abs(), "{s}: {x} -> {again}");
+        }
+        // The offset itself, for readings: 0 °C is 273.15 K.
+        if offset != 0.0 {
+            let zero = units::to_si_in(0.0, s, d).unwrap();
+            assert!(
+                (zero - offset).abs() <= 1e-12 * offset,
+                "{s}: 0 is {zero} K"
+            );
         }
     }
     assert!(
@@ -504,6 +560,63 @@ fn every_factor_matches_nist() {
     );
     for unit in UNITS {
         assert!(!unit.source.is_empty(), "{} has no source", unit.symbol);
+    }
+}
+
+/// US customary units are built on the international foot and pound: each definition
+/// below holds to the last bit or two. Sources: NIST Handbook 44, Appendix C (General
+/// Tables of Units of Measurement) for the length, area and volume relations; NIST SP
+/// 811 (2008) B.8 for the slug (lbf·s²/ft), the horsepower (550 ft·lbf/s), the kip
+/// (1000 lbf) and the Btu(IT)/(lb·°F) (exactly 4186.8 J/(kg·K)).
+#[test]
+fn us_customary_units_follow_the_international_foot_and_pound() {
+    let si = |x: f64, unit: &str| units::to_si(x, unit).unwrap();
+    let (ft, inch, lb, lbf, s) = (
+        si(1.0, "ft"),
+        si(1.0, "in"),
+        si(1.0, "lb"),
+        si(1.0, "lbf"),
+        1.0,
+    );
+    let cases: &[(&str, f64, &str)] = &[
+        ("acre", 43_560.0 * ft * ft, "HB 44 C: 1 acre = 43 560 ft²"),
+        ("mi", 5280.0 * ft, "HB 44 C: 1 mi = 5280 ft"),
+        ("yd", 3.0 * ft, "HB 44 C: 1 yd = 3 ft"),
+        ("ft", 12.0 * inch, "HB 44 C: 1 ft = 12 in"),
+        (
+            "gal",
+            231.0 * inch * inch * inch,
+            "HB 44 C: 1 gal = 231 in³",
+        ),
+        (
+            "ft^3",
+            1728.0 * inch * inch * inch,
+            "HB 44 C: 1 ft³ = 1728 in³",
+        ),
+        ("slug", lbf * s * s / ft, "SP 811 B.8: slug = lbf·s²/ft"),
+        ("hp", 550.0 * ft * lbf / s, "SP 811 B.8: hp = 550 ft·lbf/s"),
+        ("kip", 1000.0 * lbf, "SP 811 B.8: kip = 1000 lbf"),
+        ("psi", 144.0 * si(1.0, "psf"), "HB 44 C: 1 ft² = 144 in²"),
+        ("lbf", lb * 9.80665, "SP 811 B.8: lbf = lb × gn"),
+        ("lb/ft^3", lb / (ft * ft * ft), "SP 811 B.8: lb/ft³"),
+        (
+            "Btu/(lb*°F)",
+            4186.8,
+            "SP 811 B.8: Btu(IT)/(lb·°F) is exactly 4.1868 E+03",
+        ),
+        ("ft^2/d", ft * ft / 86_400.0, "SI Table 8: 1 d = 86 400 s"),
+        (
+            "m^2/yr",
+            1.0 / (365.0 * 86_400.0),
+            "SP 811 B.8: year (365 days)",
+        ),
+    ];
+    for &(unit, want, source) in cases {
+        let got = si(1.0, unit);
+        assert!(
+            (got - want).abs() <= 4e-16 * want,
+            "1 {unit} = {got} in SI, but {source} gives {want}"
+        );
     }
 }
 
@@ -534,17 +647,6 @@ fn conversions_between_non_si_units() {
     assert_eq!(units::convert(2.0, "m³/s", "m^3/s").unwrap(), 2.0);
     assert_eq!(units::convert(5.0, "W/(m²·K)", "W/(m^2*K)").unwrap(), 5.0);
     assert_eq!(units::convert(3.0, "µA", "uA").unwrap(), 3.0);
-    // Round trip through SI.
-    for unit in UNITS {
-        let x = 12.345;
-        let back = units::from_si_in(
-            units::to_si_in(x, unit.symbol, unit.dimension).unwrap(),
-            unit.symbol,
-            unit.dimension,
-        )
-        .unwrap();
-        assert!((back - x).abs() < 1e-12 * x, "{}: {back}", unit.symbol);
-    }
 }
 
 #[test]

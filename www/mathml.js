@@ -16,8 +16,12 @@ function tokenize(src) {
     if (c === ' ' || c === '\t' || c === '\r') { i++; continue; }
     if (c === '#') { while (i < src.length && src[i] !== '\n') i++; continue; }
     if (c === '\n' || c === ';') { toks.push({ t: 'sep', at: i }); i++; continue; }
-    const num = /^(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?/.exec(src.slice(i));
-    if (num) { toks.push({ t: 'num', v: num[0], at: i }); i += num[0].length; continue; }
+    // The label SI: at the start of a statement (an empirical or SI-only statement).
+    const label = /^SI[ \t]*:(?!=)/.exec(src.slice(i));
+    if (label && (toks.length === 0 || toks[toks.length - 1].t === 'sep')) { toks.push({ t: 'label', v: 'SI', at: i }); i += label[0].length; continue; }
+    // A number, with its unit in brackets if it has one: 9.80665[m/s^2].
+    const num = /^(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?(?:[ \t]*\[([^\]\n;#]*)\])?/.exec(src.slice(i));
+    if (num) { toks.push({ t: 'num', v: num[0].replace(/[ \t]*\[.*$/, ''), unit: num[3], at: i }); i += num[0].length; continue; }
     const id = /^[A-Za-z_][A-Za-z0-9_]*/.exec(src.slice(i));
     if (id) { toks.push({ t: 'id', v: id[0], at: i }); i += id[0].length; continue; }
     const two = src.slice(i, i + 2);
@@ -44,7 +48,7 @@ export function parseStatements(src) {
 
   function primary() {
     const tk = peek();
-    if (tk.t === 'num') { p++; return { t: 'num', v: tk.v }; }
+    if (tk.t === 'num') { p++; return { t: 'num', v: tk.v, unit: tk.unit }; }
     if (tk.t === 'id') {
       p++;
       if (isOp('(')) {
@@ -92,14 +96,15 @@ export function parseStatements(src) {
   const out = [];
   while (peek().t !== 'end') {
     if (peek().t === 'sep') { p++; continue; }
+    const label = peek().t === 'label' ? toks[p++].v : undefined;
     if (peek().t === 'id' && toks[p + 1].t === 'op' && toks[p + 1].v === ':=') {
       const name = peek().v;
       p += 2;
-      out.push({ kind: 'def', lhs: { t: 'id', name }, rhs: expr() });
+      out.push({ kind: 'def', lhs: { t: 'id', name }, rhs: expr(), label });
     } else {
       const lhs = expr();
-      if (isOp('=')) { p++; out.push({ kind: 'eq', lhs, rhs: expr() }); }
-      else out.push({ kind: 'zero', lhs, rhs: { t: 'num', v: '0' } });
+      if (isOp('=')) { p++; out.push({ kind: 'eq', lhs, rhs: expr(), label }); }
+      else out.push({ kind: 'zero', lhs, rhs: { t: 'num', v: '0' }, label });
     }
     if (peek().t !== 'sep' && peek().t !== 'end') throw new Error(`unexpected "${peek().v}" at ${peek().at}`);
   }
@@ -121,6 +126,11 @@ function m(tag, ...kids) {
   return el;
 }
 const mo = (s) => m('mo', s);
+const space = (width) => {
+  const el = m('mspace');
+  el.setAttribute('width', width);
+  return el;
+};
 const mi = (s) => m('mi', s);
 
 function ident(name) {
@@ -165,7 +175,7 @@ function node(n, minPrec = 0) {
 
 function build(n) {
   switch (n.t) {
-    case 'num': return number(n.v);
+    case 'num': return n.unit === undefined ? number(n.v) : m('mrow', number(n.v), space('0.17em'), m('mtext', n.unit.trim()));
     case 'id': return ident(n.name);
     case 'list': {
       // A list of values c0, c1, …, cn.
@@ -233,6 +243,8 @@ function isLong(n) {
 export function equationToMathML(src) {
   return parseStatements(src).map((st) => {
     const row = m('mrow', node(st.lhs), mo(st.kind === 'def' ? '≔' : '='), node(st.rhs));
+    // An SI-only statement says so after it, as a note.
+    if (st.label === 'SI') row.append(space('1em'), m('mtext', '(SI units)'));
     const math = m('math', row);
     math.setAttribute('display', 'block');
     return math;

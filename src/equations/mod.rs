@@ -20,9 +20,11 @@
 //! assert_eq!(s.unknowns[0], ("x".to_string(), 3.0));
 //! ```
 
+pub mod dimensions;
 pub mod functions;
 pub mod parse;
 pub mod program;
+pub mod quantities;
 pub mod sensitivity;
 pub mod set;
 pub mod solve;

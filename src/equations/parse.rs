@@ -24,7 +24,9 @@ use std::str::FromStr;
 
 use super::functions;
 use super::program::{Operand, Program};
+use crate::dimension::Dimension;
 use crate::error::InputError;
+use crate::units;
 
 /// The longest text accepted, in bytes (256 KiB). Longer input is refused before it is read.
 pub const MAX_TEXT_BYTES: usize = 262_144;
@@ -36,6 +38,10 @@ pub const MAX_DEPTH: usize = 100;
 pub(crate) enum Tok {
     /// A number, with its text in meval's form (a leading dot gets a `0`).
     Num(String),
+    /// A number with a unit, `9.80665[m/s^2]`: its value in SI and its dimension.
+    Quantity(Box<Quantity>),
+    /// The statement label `SI:`, first in its statement.
+    SiLabel,
     Ident(String),
     /// One of `+ - * / % ^`.
     Op(char),
@@ -50,6 +56,16 @@ pub(crate) enum Tok {
     Separator,
 }
 
+/// A number written with a unit.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) struct Quantity {
+    /// As written, `9.80665[m/s^2]`.
+    pub written: String,
+    /// The value in SI, in meval's form (in parentheses when negative).
+    pub si_text: String,
+    pub dimension: Dimension,
+}
+
 #[derive(Debug, Clone, PartialEq)]
 pub(crate) struct Token {
     pub tok: Tok,
@@ -60,6 +76,8 @@ pub(crate) struct Token {
 fn describe(tok: &Tok) -> String {
     match tok {
         Tok::Num(s) => format!("the number {s}"),
+        Tok::Quantity(q) => format!("the quantity {}", q.written),
+        Tok::SiLabel => "the label `SI:`".into(),
         Tok::Ident(s) => format!("`{s}`"),
         Tok::Op(c) => format!("`{c}`"),
         Tok::LParen => "`(`".into(),
@@ -115,8 +133,18 @@ pub(crate) fn lex(text: &str) -> Result<Vec<Token>, InputError> {
             c if c.is_whitespace() => i += 1,
             '0'..='9' | '.' => {
                 let (tok, end) = lex_number(&chars, i)?;
-                out.push(Token { tok, pos });
-                i = end;
+                let mut j = end;
+                while j < n && (chars[j] == ' ' || chars[j] == '\t') {
+                    j += 1;
+                }
+                if j < n && chars[j] == '[' {
+                    let (quantity, after) = lex_unit(&chars, &tok, pos, j, &mut out)?;
+                    out.push(quantity);
+                    i = after;
+                } else {
+                    out.push(Token { tok, pos });
+                    i = end;
+                }
             }
             'a'..='z' | 'A'..='Z' | '_' => {
                 let mut j = i + 1;
@@ -174,10 +202,17 @@ pub(crate) fn lex(text: &str) -> Result<Vec<Token>, InputError> {
                 });
                 i += 2;
             }
+            ':' if starts_si_label(&out) => {
+                if let Some(last) = out.last_mut() {
+                    last.tok = Tok::SiLabel;
+                }
+                i += 1;
+            }
             ':' => {
                 return Err(InputError::at(
                     "unexpected-character",
-                    "`:` must be followed by `=`: a definition is written name := expression",
+                    "`:` must be followed by `=` (a definition is written name := expression), \
+                     or end the label SI: at the start of a statement",
                     pos,
                 ))
             }
@@ -191,7 +226,18 @@ pub(crate) fn lex(text: &str) -> Result<Vec<Token>, InputError> {
                     pos,
                 ))
             }
-            '[' | ']' | '{' | '}' => {
+            '[' | ']' => {
+                return Err(InputError::at(
+                    "unexpected-character",
+                    format!(
+                        "`{c}` is used only for the unit of a number, right after it, as in \
+                         9.80665[m/s^2]; group with ( and ), and give the units of variables \
+                         with their values"
+                    ),
+                    pos,
+                ))
+            }
+            '{' | '}' => {
                 return Err(InputError::at(
                     "unexpected-character",
                     format!("`{c}` is not used in equations; group with ( and )"),
@@ -208,6 +254,113 @@ pub(crate) fn lex(text: &str) -> Result<Vec<Token>, InputError> {
         }
     }
     Ok(out)
+}
+
+/// Whether a `:` now ends the label `SI:`: the last token is the name `SI` and it
+/// starts a statement.
+fn starts_si_label(out: &[Token]) -> bool {
+    match out {
+        [.., last] if last.tok != Tok::Ident("SI".into()) => false,
+        [_] => true,
+        [.., before, _] => before.tok == Tok::Separator,
+        [] => false,
+    }
+}
+
+/// Whether a sign at the end of `out` is a unary one (nothing before it that it could
+/// subtract from).
+fn sign_is_unary(out: &[Token]) -> bool {
+    match out {
+        [.., before, _] => !matches!(
+            before.tok,
+            Tok::Num(_) | Tok::Quantity(_) | Tok::Ident(_) | Tok::RParen
+        ),
+        _ => true,
+    }
+}
+
+/// Reads the unit in brackets at `open` after the number `number` (at `pos`) and
+/// returns the quantity token and the position after `]`. A temperature reading with
+/// an offset (`-40[degC]`) takes a sign written just before it into the reading, so
+/// that -40[degC] is 233.15 K, not -(313.15 K).
+fn lex_unit(
+    chars: &[char],
+    number: &Tok,
+    pos: usize,
+    open: usize,
+    out: &mut Vec<Token>,
+) -> Result<(Token, usize), InputError> {
+    let Tok::Num(text) = number else {
+        return Err(InputError::at(
+            "bad-number",
+            "a unit must follow a number",
+            open,
+        ));
+    };
+    let close = chars[open + 1..]
+        .iter()
+        .position(|&c| matches!(c, ']' | '[' | '\n' | ';' | '#'))
+        .map(|k| open + 1 + k);
+    let Some(close) = close.filter(|&k| chars[k] == ']') else {
+        return Err(InputError::at(
+            "unbalanced-brackets",
+            "this `[` is never closed: the unit of a number is written in brackets, as in \
+             9.80665[m/s^2]",
+            open,
+        ));
+    };
+    let unit_text: String = chars[open + 1..close].iter().collect();
+    let unit = units::parse_unit(&unit_text).map_err(|e| {
+        InputError::at(
+            e.code,
+            format!("in the unit of the number {text}: {}", e.message),
+            open + 1 + e.position.unwrap_or(0),
+        )
+    })?;
+    let mut value: f64 = text.parse().unwrap_or(f64::NAN);
+    let mut start = pos;
+    let mut sign = "";
+    if unit.offset != 0.0 {
+        if let Some(Token {
+            tok: Tok::Op(c @ ('-' | '+')),
+            pos: at,
+        }) = out.last().cloned()
+        {
+            if sign_is_unary(out) {
+                out.pop();
+                start = at;
+                if c == '-' {
+                    value = -value;
+                    sign = "-";
+                }
+            }
+        }
+    }
+    let si = unit.to_si(value);
+    if !si.is_finite() {
+        return Err(InputError::at(
+            "bad-number",
+            format!("the quantity {text}[{unit_text}] is too large for a 64-bit float in SI"),
+            start,
+        ));
+    }
+    let si_text = if si < 0.0 {
+        format!("({si:e})")
+    } else {
+        format!("{si:e}")
+    };
+    let quantity = Quantity {
+        written: format!("{sign}{text}[{unit_text}]"),
+        si_text,
+        dimension: unit.dimension,
+    };
+    Ok((
+        Token {
+            tok: Tok::Quantity(Box::new(quantity)),
+            pos: start,
+        },
+        close + 1,
+    ))
 }
 
 /// Reads `digits [. digits] [e [+-] digits]` or `. digits [exponent]` starting at `i`.
@@ -300,7 +453,7 @@ pub(crate) fn check_expression(
         let next = tokens.get(i + 1);
         if want_operand {
             match &t.tok {
-                Tok::Num(_) => want_operand = false,
+                Tok::Num(_) | Tok::Quantity(_) => want_operand = false,
                 Tok::Ident(name)
                     if matches!(
                         next,
@@ -479,11 +632,12 @@ pub(crate) fn normalise(tokens: &[Token], out: &mut String) {
     for t in tokens {
         match &t.tok {
             Tok::Num(s) | Tok::Ident(s) => out.push_str(s),
+            Tok::Quantity(q) => out.push_str(&q.si_text),
             Tok::Op(c) => out.push(*c),
             Tok::LParen => out.push('('),
             Tok::RParen => out.push(')'),
             Tok::Comma => out.push(','),
-            Tok::Equals | Tok::Define | Tok::Separator => {}
+            Tok::Equals | Tok::Define | Tok::Separator | Tok::SiLabel => {}
         }
     }
 }
@@ -509,10 +663,12 @@ impl Expression {
     /// ```
     pub fn parse(text: &str) -> Result<Expression, InputError> {
         let tokens = lex(text)?;
-        if let Some(t) = tokens
-            .iter()
-            .find(|t| matches!(t.tok, Tok::Equals | Tok::Define | Tok::Separator))
-        {
+        if let Some(t) = tokens.iter().find(|t| {
+            matches!(
+                t.tok,
+                Tok::Equals | Tok::Define | Tok::Separator | Tok::SiLabel
+            )
+        }) {
             return Err(InputError::at(
                 "not-an-expression",
                 format!("{} is not allowed in a single expression", describe(&t.tok)),
@@ -611,9 +767,31 @@ pub(crate) enum StatementKind {
 #[derive(Debug, Clone)]
 pub(crate) struct Statement {
     pub kind: StatementKind,
-    /// Character position of the statement's first token.
+    /// Character position of the statement's first token (after a label).
     pub position: usize,
     pub expr: Expression,
+    /// Labelled `SI:`: it holds in SI units with numbers whose units are not written
+    /// (an empirical relation, a physical constant typed bare); the dimension check
+    /// takes it on trust.
+    pub si_only: bool,
+    /// Its tokens (the label left out), for the dimension check.
+    pub tokens: Vec<Token>,
+}
+
+impl Statement {
+    /// The tokens of the two sides: `(left, Some((position of =, right)))` for
+    /// `lhs = rhs`, `(expr, None)` for a bare expression, `(body, None)` for a
+    /// definition.
+    pub(crate) fn sides(&self) -> (&[Token], Option<(usize, &[Token])>) {
+        let t = &self.tokens;
+        match self.kind {
+            StatementKind::Definition(_) => (t.get(2..).unwrap_or(&[]), None),
+            StatementKind::Equation => match t.iter().position(|x| x.tok == Tok::Equals) {
+                Some(k) => (&t[..k], Some((t[k].pos, &t[k + 1..]))),
+                None => (t, None),
+            },
+        }
+    }
 }
 
 /// Reads a whole text into statements.
@@ -646,6 +824,19 @@ pub(crate) fn statements(text: &str) -> Result<Vec<Statement>, InputError> {
 }
 
 fn statement(tokens: &[Token], end: usize) -> Result<Statement, InputError> {
+    let (si_only, tokens) = match tokens {
+        [label, rest @ ..] if label.tok == Tok::SiLabel => {
+            if rest.is_empty() {
+                return Err(InputError::at(
+                    "missing-operand",
+                    "the label SI: is followed by no equation or definition",
+                    label.pos,
+                ));
+            }
+            (true, rest)
+        }
+        _ => (false, tokens),
+    };
     let position = tokens[0].pos;
     if let Some(k) = tokens.iter().position(|t| t.tok == Tok::Define) {
         let name =
@@ -685,6 +876,8 @@ fn statement(tokens: &[Token], end: usize) -> Result<Statement, InputError> {
             kind: StatementKind::Definition(name),
             position,
             expr: Expression::from_checked(normalised, names, position)?,
+            si_only,
+            tokens: tokens.to_vec(),
         });
     }
     let equals: Vec<&Token> = tokens.iter().filter(|t| t.tok == Tok::Equals).collect();
@@ -742,6 +935,8 @@ fn statement(tokens: &[Token], end: usize) -> Result<Statement, InputError> {
         kind: StatementKind::Equation,
         position,
         expr: Expression::from_checked(normalised, names, position)?,
+        si_only,
+        tokens: tokens.to_vec(),
     })
 }
 

@@ -210,6 +210,27 @@ impl EquationSet {
         &self.statements[i]
     }
 
+    /// Whether some number in the text is written with a unit (`9.8[m/s^2]`).
+    pub fn has_numbers_with_units(&self) -> bool {
+        self.statements.iter().any(|s| {
+            s.tokens
+                .iter()
+                .any(|t| matches!(t.tok, parse::Tok::Quantity(_)))
+        })
+    }
+
+    /// The definition statements in dependency order.
+    pub(crate) fn definitions_in_order(&self) -> impl Iterator<Item = &Statement> {
+        self.definition_order.iter().map(|&i| &self.statements[i])
+    }
+
+    /// The equation statements in text order.
+    pub(crate) fn equation_statements(&self) -> impl Iterator<Item = &Statement> {
+        self.statements
+            .iter()
+            .filter(|s| s.kind == StatementKind::Equation)
+    }
+
     /// A compiled residual of the one equation of this set, as a function of `unknown`,
     /// with every other variable given in `knowns`. Definitions that do not depend on
     /// the unknown are computed once here; everything fixed is folded into the program.

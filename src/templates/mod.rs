@@ -216,6 +216,16 @@ impl Template {
         self.variables.iter().find(|v| v.symbol == symbol)
     }
 
+    /// The symbols declared as variables (so that a variable `e` is not the constant):
+    /// the variables and the auxiliary quantities.
+    pub fn declared_symbols(&self) -> Vec<&str> {
+        self.variables
+            .iter()
+            .map(|v| v.symbol.as_str())
+            .chain(self.auxiliary.iter().map(|a| a.symbol.as_str()))
+            .collect()
+    }
+
     /// Whether `symbol` may be the unknown.
     pub fn may_solve_for(&self, symbol: &str) -> bool {
         self.unknowns.iter().any(|u| u == symbol)
@@ -385,6 +395,48 @@ fn expand_list(t: &Template, given: &[f64]) -> (String, Vec<(String, f64)>) {
         .equations
         .replace(&format!("{{{}}}", list.symbol), &names.join(", "));
     (text, names.into_iter().zip(given.iter().copied()).collect())
+}
+
+/// The dimension check of a template's equations (`set`, its text with the list
+/// expanded), with the dimension of every variable, auxiliary quantity, output and list
+/// entry. Statements whose numbers carry units that are not written are labelled `SI:`
+/// in the catalogue, as in an engineer's own equations.
+pub fn check_dimensions(
+    t: &Template,
+    set: &EquationSet,
+) -> Result<crate::equations::dimensions::DefinitionDimensions, InputError> {
+    let mut dims = std::collections::HashMap::new();
+    let mut named: Vec<(String, &str)> = Vec::new();
+    named.extend(
+        t.variables
+            .iter()
+            .map(|v| (v.symbol.clone(), v.dimension.as_str())),
+    );
+    named.extend(
+        t.auxiliary
+            .iter()
+            .map(|a| (a.symbol.clone(), a.dimension.as_str())),
+    );
+    named.extend(
+        t.outputs
+            .iter()
+            .map(|o| (o.symbol.clone(), o.dimension.as_str())),
+    );
+    if let Some(l) = &t.list {
+        named.extend(
+            (0..l.values.len()).map(|k| (format!("{}{k}", l.symbol), l.dimension.as_str())),
+        );
+    }
+    for (symbol, dimension) in named {
+        let d = crate::dimension::Dimension::named(dimension).ok_or_else(|| {
+            InputError::new(
+                "unknown-dimension",
+                format!("{symbol}: dimension \"{dimension}\" has no exponents"),
+            )
+        })?;
+        dims.insert(symbol, d);
+    }
+    crate::equations::dimensions::check(set, &dims, &t.declared_symbols())
 }
 
 /// The bounds of an unknown: its physical bounds within its limits, if any.
@@ -872,12 +924,7 @@ fn nested_solve(
     specs: &[UnknownSpec],
     options: &Options,
 ) -> Result<Option<Vec<f64>>, InputError> {
-    let declared: Vec<&str> = t
-        .variables
-        .iter()
-        .map(|v| v.symbol.as_str())
-        .chain(t.auxiliary.iter().map(|a| a.symbol.as_str()))
-        .collect();
+    let declared = t.declared_symbols();
     let aux_text: Vec<&str> = t.auxiliary.iter().map(|a| a.equation.as_str()).collect();
     let aux_set = EquationSet::parse_declaring(&aux_text.join("\n"), &declared)?;
     let main_set = EquationSet::parse_declaring(&main_text(t, text), &declared)?;
@@ -1041,6 +1088,9 @@ pub fn check_catalogue() -> Vec<String> {
                     if !defs.contains(&o.symbol) {
                         problems.push(at(format!("output {} is not a definition", o.symbol)));
                     }
+                }
+                if let Err(e) = check_dimensions(t, &set) {
+                    problems.push(at(format!("dimensions: {}", e.message)));
                 }
             }
         }

@@ -138,6 +138,28 @@ test("equation errors carry a code and a position", () => {
   });
 });
 
+test("own equations in chosen units, and a dimension mismatch", () => {
+  // 100 gpm in a 4-inch bore, in ft/s: 100 * 231 in^3 / 60 s over pi * 2^2 in^2, over
+  // 12 in/ft (NIST SP 811 B.8: 1 gal = 231 in^3).
+  const r = tacit.solveEquation({
+    equations: "A := pi*D^2/4\nQ = V*A",
+    knowns: { Q: 100, D: 4 },
+    units: { Q: "gpm", D: "in", V: "ft/s" },
+    unknowns: ["V"],
+  });
+  close(r.unknowns.V, (100 * 231) / 60 / (Math.PI * 4) / 12, 1e-12, "V in ft/s");
+  assert.equal(r.units.V, "ft/s");
+  assert.throws(
+    () => tacit.solveEquation({ equations: "hf = Q", knowns: { Q: 1 }, units: { hf: "ft", Q: "gpm" } }),
+    (e) =>
+      e instanceof tacit.TacitError &&
+      e.code === "dimension-mismatch" &&
+      e.position === 3 &&
+      /a length/.test(e.message) &&
+      /a volume flow/.test(e.message),
+  );
+});
+
 test("a JS function, sync and async, gives the same root", async () => {
   // Reference: Math.cbrt (ECMAScript built-in).
   const f = (x) => x ** 3 - 10;

@@ -182,7 +182,7 @@ test("the public API answers garbage with TacitErrors", async () => {
       ["init", () => tacit.init(g)],
       ["initSync", () => tacit.initSync(g)],
     );
-    for (const key of ["equations", "knowns", "unknowns", "method", "tolerances", "history", "sensitivities", "range", "samples", "input", "from", "points"]) {
+    for (const key of ["equations", "knowns", "unknowns", "units", "method", "tolerances", "history", "sensitivities", "range", "samples", "input", "from", "points"]) {
       calls.push([`solveEquation .${key}`, () => tacit.solveEquation({ equations: "x^2 = a", knowns: { a: 2 }, [key]: g })]);
       calls.push([`sweep .${key}`, () => tacit.sweep({ equations: "x^2 = a", input: "a", from: 1, to: 2, points: 3, [key]: g })]);
       calls.push([`findRoots .${key}`, () => tacit.findRoots({ equations: "x^2 = 2", range: [0, 2], [key]: g })]);
@@ -196,6 +196,7 @@ test("the public API answers garbage with TacitErrors", async () => {
       calls.push([`Stepper.create .${key}`, () => tacit.Stepper.create({ guesses: [1, 2], [key]: g })]);
     }
     calls.push([`tolerances.xRel`, () => tacit.solveFunction((x) => x, { guesses: [1, 2], tolerances: { xRel: g } })]);
+    calls.push([`units.a`, () => tacit.solveEquation({ equations: "x^2 = a", knowns: { a: 2 }, units: { a: g, x: "m" } })]);
     calls.push([`unknowns[0]`, () => tacit.solveEquation({ equations: "x^2 = 2", unknowns: [g] })]);
     calls.push([`unknowns[0].guesses`, () => tacit.solveEquation({ equations: "x^2 = 2", unknowns: [{ name: "x", guesses: g }] })]);
     calls.push([`stepper.tell`, () => {
