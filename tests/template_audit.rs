@@ -24,6 +24,7 @@
 //!   is not one;
 //! - **missed**: not converged although the independent solve finds a root;
 //! - **unexplained**: refused without a reason.
+//!
 //! Printed beside them: answers where the residual is large against the two sides
 //! though the point is a root as evaluated (the formula loses digits there), and
 //! refusals with a root beyond the unknown's bounds widened a thousandfold (to spot
