@@ -9,13 +9,20 @@
 //! it may be solved for, validity notes, a caution where the result is safety-related,
 //! and the published source of the equation.
 //!
-//! [`solve_template`] converts the inputs to SI, solves with
-//! [`crate::equations::solve_set`], converts the answer to the unit asked for, and adds:
-//! - the other roots of multi-root templates (both Mach numbers of an area ratio, the
-//!   liquid-like and vapour-like volumes of a cubic equation of state, the two depths
-//!   of a pipe flowing nearly full), found by a scan of the template's range with
-//!   [`crate::roots_in_range::roots_in_range`], each labelled in the notes;
-//! - the explicit approximations a template compares with (Swamee–Jain, Haaland);
+//! [`solve_template`] converts the inputs to SI, refuses knowns outside the template's
+//! conditions of validity, starts from the template's explicit approximation of the
+//! unknown where it has one (Serghides for Colebrook–White, Hunt for wave dispersion;
+//! see [`Starter`]), solves with [`crate::equations::solve_set`], converts the answer to
+//! the unit asked for, and adds:
+//! - for templates with several roots (both Mach numbers of an area ratio, the
+//!   liquid-like and vapour-like volumes of a cubic equation of state, the two depths of
+//!   a pipe flowing nearly full), every root in the template's range, each with its
+//!   branch label; the answer is the branch asked for, else the template's default
+//!   branch (`roots.rs`);
+//! - after a failed solve, a scan of the unknown's range and a second solve from the
+//!   root it finds, or a note that no value in the range satisfies the equation;
+//! - the starting approximation and the explicit approximations a template compares
+//!   with (Swamee–Jain, Haaland), with their differences from the answer;
 //! - the warnings whose conditions hold (Colebrook below Re 4000, and so on);
 //! - the values of the template's intermediate outputs, in their display units.
 //!
