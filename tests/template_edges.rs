@@ -575,3 +575,25 @@ fn no_root_in_range_is_said() {
         s.notes
     );
 }
+
+#[test]
+fn plane_wall_half_thickness_with_no_root_in_range() {
+    // T = Tinf with Ti != Tinf needs theta = 0, so cos(zeta1 x/L) = 0 and L = 2 zeta1 x/pi,
+    // below x: no half-thickness in the range L >= x (algebra on Incropera eq. 5.40). The
+    // coupled solve used to stop on the bound L = x and call it converged.
+    let s = solve(
+        "thermal.plane-wall-transient",
+        "L",
+        &[
+            ("T", -14.5816, "°C"),
+            ("Tinf", -14.5816, "°C"),
+            ("Ti", 4019.781, "°C"),
+            ("t", 0.792891, "h"),
+            ("h", 24896.02, "W/(m^2*K)"),
+            ("k", 0.003651761, "W/(m*K)"),
+            ("alpha", 0.1489614, "mm^2/s"),
+            ("x", 17400.18, "mm"),
+        ],
+    );
+    assert!(!s.solution.converged, "{} {:?}", s.value, s.notes);
+}

@@ -989,6 +989,10 @@ fn solve_coupled(
                 last.converged = false;
                 last.status = Status::StuckAtBound;
             }
+            if let Some(system) = solution.system.as_mut() {
+                system.converged = false;
+                system.status = Status::StuckAtBound;
+            }
         }
         return Ok(solution);
     };
