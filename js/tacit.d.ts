@@ -235,8 +235,10 @@ export interface TemplateRequest {
   unknown: string;
   /** Unit of the result (default: the template's default unit for the unknown). */
   resultUnit?: string;
-  /** Starting guesses, in the result unit. */
+  /** Starting guesses, in the result unit (default: the template's starter or guesses). */
   guesses?: NumberPair;
+  /** The branch wanted, by its label (`"subsonic"`, `"liquid-like"`); default: the template's. */
+  branch?: string;
   method?: MethodName;
   tolerances?: Tolerances;
   history?: boolean;
@@ -247,8 +249,12 @@ export interface TemplateResult extends EquationResult {
   /** The unknown in `unit`. */
   value: number;
   unit: string;
-  /** Other roots of two-branch templates, in `unit`. */
-  otherRoots: number[];
+  /** The branch label of `value`, for templates that label their roots. */
+  branch: string | null;
+  /** Other roots of multi-root templates, in `unit`, with their branch labels. */
+  otherRoots: { value: number; label: string | null }[];
+  /** Evaluations spent scanning for roots, beyond `evaluations`. */
+  scanEvaluations: number;
   notes: string[];
   /** A safety caution, where the result feeds a design that can hurt someone. */
   caution: string | null;
@@ -276,6 +282,26 @@ export interface TemplateRootScan {
   largest?: string;
   single?: string;
   several?: string;
+  /** Where the scan is split in two (the roots lie either side of it). */
+  split?: string;
+  /** The branch returned unless the request asks for another, and why. */
+  default?: string;
+  defaultReason?: string;
+}
+
+/** An explicit approximation used as the first guess when the variable is the unknown. */
+export interface TemplateStarter {
+  label: string;
+  /** An expression in SI over the other variables. */
+  expr: string;
+  source: string;
+}
+
+/** A condition on the knowns outside which the template does not apply. */
+export interface TemplateRequirement {
+  /** An expression in SI that must not be negative. */
+  holds: string;
+  text: string;
 }
 
 /** A variable of a template; value, bounds and guesses are in `unit`. */
@@ -296,6 +322,7 @@ export interface TemplateVariable {
   /** Tighter limits when this is the unknown, as expressions in SI of the knowns. */
   limits?: [string, string];
   roots?: TemplateRootScan;
+  starter?: TemplateStarter;
 }
 
 /** A quantity solved together with every unknown (bounds and guesses in SI). */
@@ -361,6 +388,7 @@ export interface TemplateInfo {
   /** The published source of the equation. */
   source: string;
   list?: TemplateListInput;
+  requires?: TemplateRequirement[];
 }
 
 /** A value shown with a template result, in its display unit. */

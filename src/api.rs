@@ -1149,8 +1149,9 @@ pub fn catalogue() -> String {
     text_of(camel_keys(value))
 }
 
-const TEMPLATE_FIELDS: [&str; 9] = [
+const TEMPLATE_FIELDS: [&str; 10] = [
     "id",
+    "branch",
     "values",
     "unknown",
     "resultUnit",
@@ -1282,14 +1283,26 @@ fn template_values(f: &Fields, id: &str) -> Result<Vec<(String, f64, String)>, I
 }
 
 /// A [`TemplateSolution`] as a JSON object: the set solution (unknowns in SI) with
-/// `root`/`value` in the result unit, `unit`, `otherRoots`, `notes`, `caution`, `outputs`.
+/// `root`/`value` in the result unit, `unit`, `branch` (the label of the root, or
+/// null), `otherRoots` (`[{value, label}]`), `scanEvaluations`, `notes`, `caution`,
+/// `outputs`.
 pub fn template_solution_value(s: &TemplateSolution) -> Value {
     let mut v = set_solution_value(&s.solution);
     if let Value::Object(m) = &mut v {
         m.insert("root".into(), num(s.value));
         m.insert("value".into(), num(s.value));
         m.insert("unit".into(), json!(s.unit));
-        m.insert("otherRoots".into(), nums(&s.other_roots));
+        m.insert("branch".into(), json!(s.branch));
+        m.insert(
+            "otherRoots".into(),
+            Value::Array(
+                s.other_roots
+                    .iter()
+                    .map(|r| json!({"value": num(r.value), "label": r.label}))
+                    .collect(),
+            ),
+        );
+        m.insert("scanEvaluations".into(), json!(s.scan_evaluations));
         m.insert("notes".into(), json!(s.notes));
         m.insert("caution".into(), json!(s.caution));
         m.insert(
@@ -1324,11 +1337,15 @@ pub fn template_request(request: &str) -> Result<TemplateRequest, InputError> {
         guesses: f.finite_pair("guesses")?,
         options: read_options(&f, None)?,
         sensitivities: f.boolean("sensitivities")?,
+        branch: match f.string("branch")? {
+            Some(b) => Some(short_name(b, "request.branch")?.to_string()),
+            None => None,
+        },
     })
 }
 
-/// Solves a bundled template: `{id, values, unknown, resultUnit?, guesses?, method?,
-/// tolerances?, history?, sensitivities?}`.
+/// Solves a bundled template: `{id, values, unknown, resultUnit?, guesses?, branch?,
+/// method?, tolerances?, history?, sensitivities?}`.
 pub fn solve_template(request: &str) -> Result<String, InputError> {
     let req = template_request(request)?;
     let solution = templates::solve_template(&req)?;

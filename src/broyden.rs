@@ -224,8 +224,9 @@ struct Run<F> {
     /// Jacobian probes and line-search points that could repeat are all recent.
     recent: Vec<Vec<f64>>,
     next_recent: usize,
-    /// Accepted iterates (x, max |F|), a ring of [`ITERATES`], for the certificate.
-    iterates: Vec<(Vec<f64>, f64)>,
+    /// Accepted iterates (x, F(x)), a ring of [`ITERATES`] keeping the start, for the
+    /// certificate.
+    iterates: Vec<(Vec<f64>, Vec<f64>)>,
     x0: Vec<f64>,
 }
 
@@ -333,11 +334,12 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
     fn claim(
         &mut self,
         status: Status,
-        step: f64,
+        step_vec: &[f64],
         x: Vec<f64>,
         fx: Vec<f64>,
         iterations: usize,
     ) -> SystemSolution {
+        let step = step_vec.iter().fold(0.0f64, |a, v| a.max(v.abs()));
         let m = fx.iter().fold(0.0f64, |a, v| a.max(v.abs()));
         let certificate = match status {
             Status::ExactZero => Some(Certificate {
@@ -357,28 +359,41 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
                 reference: None,
             }),
             _ => {
-                let dist = |p: &[f64]| {
-                    p.iter()
-                        .zip(&x)
-                        .fold(0.0f64, |a, (u, v)| a.max((u - v).abs()))
-                };
+                // Distances in each unknown's own scale, residuals in each equation's
+                // own scale (the largest |F_i| remembered), so that unknowns and
+                // equations of different sizes weigh alike.
+                let n = self.n;
+                let typ: Vec<f64> = (0..n).map(|j| self.typical(&x, j)).collect();
+                let dist =
+                    |p: &[f64]| (0..n).fold(0.0f64, |a, j| a.max((p[j] - x[j]).abs() / typ[j]));
+                let scale: Vec<f64> = (0..n)
+                    .map(|i| {
+                        self.iterates
+                            .iter()
+                            .fold(fx[i].abs(), |a, (_, f)| a.max(f[i].abs()))
+                            .max(f64::MIN_POSITIVE)
+                    })
+                    .collect();
+                let weighted = |f: &[f64]| (0..n).fold(0.0f64, |a, i| a.max(f[i].abs() / scale[i]));
+                let wm = weighted(&fx);
+                let s_scaled = (0..n).fold(0.0f64, |a, j| a.max(step_vec[j].abs() / typ[j]));
                 let far = self
                     .iterates
                     .iter()
-                    .map(|(p, fp)| (dist(p), *fp))
-                    .filter(|&(d, fp)| d >= REFERENCE_SPAN * step && fp.is_finite())
+                    .map(|(p, f)| (dist(p), weighted(f)))
+                    .filter(|&(d, fr)| d >= REFERENCE_SPAN * s_scaled && fr.is_finite())
                     .min_by(|a, b| a.0.total_cmp(&b.0));
                 let reference = far.or_else(|| {
                     let start = self.iterates.first()?;
                     let d = dist(&start.0);
-                    (d >= 2.0 * step).then_some((d, start.1))
+                    (d >= 2.0 * s_scaled).then_some((d, weighted(&start.1)))
                 });
                 reference.and_then(|(d, fr)| {
-                    let bound = 4.0 * fr * (step / d);
-                    (m <= bound).then_some(Certificate {
+                    let bound = 4.0 * fr * (s_scaled / d);
+                    (wm <= bound).then_some(Certificate {
                         kind: CertificateKind::Step,
                         residual: m,
-                        bound,
+                        bound: bound * m / wm.max(f64::MIN_POSITIVE),
                         bracket: None,
                         width: step,
                         reference: Some((d, fr)),
@@ -395,14 +410,11 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
     }
 
     fn remember(&mut self, x: &[f64], fx: &[f64]) {
-        let m = fx.iter().fold(0.0f64, |a, v| a.max(v.abs()));
-        if self.iterates.len() < ITERATES {
-            self.iterates.push((x.to_vec(), m));
-        } else {
+        if self.iterates.len() >= ITERATES {
             // Keep the start; rotate the rest.
             self.iterates.remove(1);
-            self.iterates.push((x.to_vec(), m));
         }
+        self.iterates.push((x.to_vec(), fx.to_vec()));
     }
 
     /// Forward-difference Jacobian at x (row i, column j = dF_i/dx_j), or the status
@@ -495,10 +507,10 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
         let mut fresh = true;
         loop {
             if fx.iter().all(|&v| v == 0.0) {
-                return self.claim(Status::ExactZero, 0.0, x, fx, iterations);
+                return self.claim(Status::ExactZero, &[], x, fx, iterations);
             }
             if fx.iter().all(|v| v.abs() <= self.tol.f_abs) {
-                return self.claim(Status::ConvergedResidual, 0.0, x, fx, iterations);
+                return self.claim(Status::ConvergedResidual, &[], x, fx, iterations);
             }
             let rhs: Vec<f64> = fx.iter().map(|v| -v).collect();
             let Some(step) = solve_dense(&jac, &rhs, n) else {
@@ -566,17 +578,16 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
                     }
                     if blocked_at == Some(0) && iterations > 0 {
                         // The full step no longer changes x in floating point.
-                        let s_max = step.iter().fold(0.0f64, |a, v| a.max(v.abs()));
-                        let ulp = x.iter().fold(f64::MIN_POSITIVE, |a, v| {
-                            a.max(4.0 * f64::EPSILON * v.abs())
-                        });
-                        return self.claim(
-                            Status::ConvergedStep,
-                            s_max.max(ulp),
-                            x,
-                            fx,
-                            iterations,
-                        );
+                        let least: Vec<f64> = x
+                            .iter()
+                            .zip(&step)
+                            .map(|(v, d)| {
+                                d.abs()
+                                    .max(4.0 * f64::EPSILON * v.abs())
+                                    .max(f64::MIN_POSITIVE)
+                            })
+                            .collect();
+                        return self.claim(Status::ConvergedStep, &least, x, fx, iterations);
                     }
                 }
                 if fresh {
@@ -615,10 +626,9 @@ impl<F: FnMut(&[f64], &mut [f64])> Run<F> {
             fx = fxn;
             if small_step && full {
                 if fx.iter().all(|&v| v == 0.0) {
-                    return self.claim(Status::ExactZero, 0.0, x, fx, iterations);
+                    return self.claim(Status::ExactZero, &[], x, fx, iterations);
                 }
-                let s_max = s.iter().fold(0.0f64, |a, v| a.max(v.abs()));
-                return self.claim(Status::ConvergedStep, s_max, x, fx, iterations);
+                return self.claim(Status::ConvergedStep, &s, x, fx, iterations);
             }
             self.remember(&x, &fx);
         }

@@ -6,17 +6,21 @@
 //! - **bracket**: f changes sign across a final bracket [lo, hi] no wider than the step
 //!   tolerance, *and* |f| shrank as the bracket closed. The test: with w the bracket's
 //!   width, m = |f| at the root returned (the end with the smaller |f|), and the
-//!   *reference* the evaluated point nearest the root that lies at least
-//!   [`REFERENCE_SPAN`] widths away (at distance d, value f_ref),
+//!   *reference* an evaluated point between [`REFERENCE_SPAN`] and
+//!   [`REFERENCE_WINDOW`] widths away or the nearest beyond (at distance d, value
+//!   f_ref; the one giving the largest bound, so that a flat f whose last values are
+//!   rounding noise is judged by the points before the noise),
 //!   `m ≤ 2·|f_ref|·(w/d)^(1/3)`. Any root at which f behaves like |x − r|^α with
 //!   α ≥ 1/3 (simple roots, cube-root-like ones, multiple roots) passes with room to
 //!   spare; at a jump |f| stays put as the bracket closes and at a pole it grows, so
 //!   both fail and end as [`Status::Discontinuity`].
 //! - **step**: an open method (no sign change seen) took a step s below the tolerance,
-//!   *and* a point q evaluated a few steps *beyond* the estimate (between
-//!   [`BEYOND_MIN`] and [`BEYOND_MAX`] steps, at distance d; the driver evaluates one at
-//!   [`BEYOND_PROBE`] steps if there is none) shows |f| growing at least in proportion
-//!   to the distance: `m ≤ 4·|f(q)|·(s/d)`. The points behind the estimate cannot
+//!   *and* a point q evaluated *beyond* the estimate (at least [`BEYOND_MIN`] steps, at
+//!   distance d; the driver evaluates one at [`BEYOND_PROBE`] steps if there is none,
+//!   and looks sixteen times farther while |f| there has not grown, up to
+//!   [`BEYOND_FAR`] steps) shows |f| growing at least in proportion to the distance:
+//!   `m ≤ 4·|f(q)|·(s/d)`. A sign change seen out there turns the claim into a bracket,
+//!   halved to the tolerance by checking evaluations and then judged as a bracket. The points behind the estimate cannot
 //!   check it, since they produced the step. Near a simple root f(q) has the other sign
 //!   and about d/s times the residual; near a touching root it grows like d²; along an
 //!   asymptote, a decaying exponential or at a minimum of |f| above zero it does not
@@ -47,11 +51,16 @@ pub const REFERENCE_SPAN: f64 = 64.0;
 /// (at least `BEYOND_MIN`, at most `BEYOND_MAX`); a checking evaluation is made at
 /// `BEYOND_PROBE` steps when none does.
 pub const BEYOND_MIN: f64 = 4.0;
-pub const BEYOND_MAX: f64 = 256.0;
 pub const BEYOND_PROBE: f64 = 16.0;
+/// The farthest an open method's step is checked: about a million steps (16⁵).
+pub const BEYOND_FAR: f64 = 1_048_576.0;
+
+/// A bracket's reference is sought up to this many widths from the root (thirty
+/// halvings), and at the nearest point beyond.
+pub const REFERENCE_WINDOW: f64 = 1_073_741_824.0;
 
 /// Extra evaluations the driver may spend checking one claim of convergence.
-pub const MAX_CHECKS: usize = 8;
+pub const MAX_CHECKS: usize = 24;
 
 /// Which evidence stands behind a converged answer.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
@@ -176,6 +185,23 @@ impl Evidence {
             .min_by(|p, q| (p.0 - r).abs().total_cmp(&(q.0 - r).abs()))
     }
 
+    /// The reference for a bracket of width w around r: among the points between
+    /// [`REFERENCE_SPAN`]·w and [`REFERENCE_WINDOW`]·w away, and the nearest point
+    /// beyond, the one that gives the largest bound |f|·(w/d)^(1/3). Taking the largest
+    /// keeps a root whose last evaluations are all rounding noise (a very flat f, where
+    /// |f| cannot shrink below the noise) certified by the points before the noise,
+    /// while at a jump or a pole, where |f| does not fall towards the root at any
+    /// distance, every candidate fails.
+    fn shrink_reference(&self, r: f64, w: f64) -> Option<(f64, f64)> {
+        let usable = |p: &(f64, f64)| p.1.is_finite() && p.0.is_finite();
+        let d = |p: &(f64, f64)| (p.0 - r).abs();
+        let score = |p: &(f64, f64)| p.1.abs() * (w / d(p)).cbrt();
+        self.points()
+            .filter(|p| usable(p) && d(p) >= REFERENCE_SPAN * w && d(p) <= REFERENCE_WINDOW * w)
+            .chain(self.reference(r, REFERENCE_WINDOW * w))
+            .max_by(|p, q| score(p).total_cmp(&score(q)))
+    }
+
     /// The nearest kept point on each side of r with a non-zero, non-NaN value.
     fn neighbours(&self, r: f64) -> (Option<Point>, Option<Point>) {
         let usable = |p: &(f64, f64)| !p.1.is_nan() && p.1 != 0.0;
@@ -216,6 +242,9 @@ pub enum Verdict {
     Refused(Status),
     /// The evidence is short: evaluate here (inside the bounds) and ask again.
     Probe(f64, StepKind),
+    /// The evidence shows a sign change across [lo, hi] around the claimed root: judge
+    /// the claim again as a bracket claim on it.
+    Bracket(f64, f64),
 }
 
 /// What a method claimed, in the terms the check needs.
@@ -257,7 +286,17 @@ pub fn assess(claim: &Claim, evidence: &Evidence, tol: &Tolerances, checks: usiz
         Status::ConvergedStep => match claim.bracket {
             Some((lo, hi)) => {
                 let w = hi - lo;
-                match evidence.reference(r, REFERENCE_SPAN * w) {
+                let mid = crate::methods::bracket::midpoint(lo, hi);
+                if w > 2.0 * tol.x_tol(mid) && mid > lo && mid < hi {
+                    // A bracket found while checking an open method's step: halve it
+                    // to the tolerance first.
+                    return if checks < MAX_CHECKS {
+                        Verdict::Probe(mid, StepKind::Check)
+                    } else {
+                        Verdict::Refused(Status::Stagnated)
+                    };
+                }
+                match evidence.shrink_reference(r, w) {
                     Some(reference) => {
                         let d = (reference.0 - r).abs();
                         let bound = 2.0 * reference.1.abs() * (w / d).cbrt();
@@ -293,11 +332,15 @@ pub fn assess(claim: &Claim, evidence: &Evidence, tol: &Tolerances, checks: usiz
 }
 
 /// An open method's claim: a step below tolerance with no sign change in its bracket.
-/// The evidence must include a point q a few steps *beyond* the estimate (the points
-/// behind it produced the step, so they cannot check it): f may change sign between
-/// them or not (a touching root), but |f| must have shrunk at least in proportion to
-/// the distance, `m ≤ 4·|f(q)|·(s/|q − r|)`. Along an asymptote or at a minimum of |f|
-/// above zero, f(q) is no larger than m and the claim fails.
+/// The evidence must include a point q *beyond* the estimate (the points behind it
+/// produced the step, so they cannot check it) where |f| has grown at least in
+/// proportion to the distance: `m ≤ 4·|f(q)|·(s/|q − r|)`. The first look is
+/// [`BEYOND_PROBE`] steps out; while |f| there has not grown (at most twice m) the look
+/// goes sixteen times farther, up to [`BEYOND_FAR`] steps, so a root whose last values
+/// are rounding noise is seen from beyond the noise. A sign change found out there
+/// makes the claim a bracket, which is then halved to the tolerance. Along an
+/// asymptote, a decaying exponential or at a minimum of |f| above zero |f| never grows
+/// enough and the claim fails.
 fn assess_step(claim: &Claim, evidence: &Evidence, tol: &Tolerances, checks: usize) -> Verdict {
     let m = claim.residual.abs();
     let r = claim.at;
@@ -313,36 +356,48 @@ fn assess_step(claim: &Claim, evidence: &Evidence, tol: &Tolerances, checks: usi
             .nearest_other(r)
             .map_or(1.0, |p| if p.0 < r { 1.0 } else { -1.0 })
     };
-    let beyond = evidence
+    let distance = |q: &(f64, f64)| (q.0 - r).abs();
+    let beyond: Vec<(f64, f64)> = evidence
         .points()
         .filter(|&(x, fx)| {
             let d = (x - r) * sigma;
-            !fx.is_nan() && d >= BEYOND_MIN * s && d <= BEYOND_MAX * s
+            !fx.is_nan() && d >= BEYOND_MIN * s && d <= BEYOND_FAR * s
         })
-        .min_by(|p, q| (p.0 - r).abs().total_cmp(&(q.0 - r).abs()));
-    match beyond {
-        Some(q) => {
-            let d = (q.0 - r).abs();
-            let bound = 4.0 * q.1.abs() * (s / d);
-            if m <= bound {
-                Verdict::Certified(Certificate {
-                    kind: CertificateKind::Step,
-                    residual: m,
-                    bound,
-                    bracket: None,
-                    width: s,
-                    reference: Some(q),
-                })
-            } else if crate::methods::opposite(q.1, claim.residual) {
-                Verdict::Refused(Status::Discontinuity)
-            } else {
-                Verdict::Refused(Status::LargeResidual)
-            }
-        }
-        None if checks < MAX_CHECKS => {
-            Verdict::Probe(r + sigma * BEYOND_PROBE * s, StepKind::Check)
-        }
-        None => Verdict::Refused(Status::LargeResidual),
+        .collect();
+    let passing = beyond
+        .iter()
+        .filter(|q| m <= 4.0 * q.1.abs() * (s / distance(q)))
+        .min_by(|p, q| distance(p).total_cmp(&distance(q)));
+    if let Some(&q) = passing {
+        return Verdict::Certified(Certificate {
+            kind: CertificateKind::Step,
+            residual: m,
+            bound: 4.0 * q.1.abs() * (s / distance(&q)),
+            bracket: None,
+            width: s,
+            reference: Some(q),
+        });
+    }
+    let across = beyond
+        .iter()
+        .filter(|q| q.1 != 0.0 && crate::methods::opposite(q.1, claim.residual))
+        .min_by(|p, q| distance(p).total_cmp(&distance(q)));
+    if let Some(&q) = across {
+        return Verdict::Bracket(r.min(q.0), r.max(q.0));
+    }
+    let farthest = beyond
+        .iter()
+        .max_by(|p, q| distance(p).total_cmp(&distance(q)))
+        .map(distance);
+    let next = match farthest {
+        None => BEYOND_PROBE * s,
+        Some(d) => 16.0 * d,
+    };
+    let grown = beyond.iter().any(|q| q.1.abs() > 2.0 * m);
+    if checks < MAX_CHECKS && !grown && next <= BEYOND_FAR * s {
+        Verdict::Probe(r + sigma * next, StepKind::Check)
+    } else {
+        Verdict::Refused(Status::LargeResidual)
     }
 }
 

@@ -307,6 +307,11 @@ impl Driver {
                 self.finish(claim.status, finish, claim.bracket, Some(certificate))
             }
             Verdict::Refused(status) => self.finish(status, finish, claim.bracket, None),
+            Verdict::Bracket(lo, hi) => {
+                let mut claim = claim;
+                claim.bracket = Some((lo, hi));
+                self.decide(claim, finish, checks);
+            }
             Verdict::Probe(x, kind) => {
                 let b = self.settings.bounds;
                 let usable = b.contains(x) && self.evidence.lookup(x).is_none() && x.is_finite();

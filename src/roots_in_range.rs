@@ -408,7 +408,7 @@ fn certify_zero(
     for checks in 0..=1 {
         match certificate::assess(&claim, &evidence, tol, checks) {
             Verdict::Certified(c) => return Some(c),
-            Verdict::Refused(_) => return None,
+            Verdict::Refused(_) | Verdict::Bracket(..) => return None,
             Verdict::Probe(p, _) => {
                 let p = if range.contains(p) { p } else { 2.0 * x - p };
                 if !range.contains(p) || evidence.lookup(p).is_some() {

@@ -96,7 +96,7 @@ fn check_abs(what: &str, got: f64, want: f64, abs: f64, source: &str) {
 
 /// Every root reported (the value and the other roots), sorted.
 fn all_roots(s: &TemplateSolution) -> Vec<f64> {
-    let mut r = s.other_roots.clone();
+    let mut r: Vec<f64> = s.other_roots.iter().map(|o| o.value).collect();
     r.push(s.value);
     r.sort_by(f64::total_cmp);
     r.dedup_by(|a, b| (*a - *b).abs() <= 1e-9 * b.abs());
@@ -1409,4 +1409,70 @@ fn impossible_inputs_are_explained() {
         "{:?}",
         s.notes
     );
+}
+
+// ---------------------------------------------------------------------------------
+// Starters: explicit approximations as first guesses.
+// ---------------------------------------------------------------------------------
+
+/// Evaluations per solve over a grid, from the template's starter and, in the same run,
+/// from its typical guesses (the start used before starters existed): (mean, largest)
+/// for each.
+fn evaluations_over(id: &str, unknown: &str, grid: &[Vec<(&str, f64, &str)>]) -> [(f64, usize); 2] {
+    let t = templates::find(id).unwrap();
+    let typical = t.variable(unknown).unwrap().guesses;
+    let mut out = [(0.0, 0usize); 2];
+    for (k, from_typical) in [false, true].into_iter().enumerate() {
+        let mut total = 0;
+        for values in grid {
+            let mut req = TemplateRequest::new(id, unknown);
+            req.values = values
+                .iter()
+                .map(|(s, v, u)| (s.to_string(), *v, u.to_string()))
+                .collect();
+            if from_typical {
+                req.guesses = Some((typical[0], typical[1]));
+            }
+            let s = solve_template(&req).unwrap();
+            assert!(s.solution.converged, "{id} {values:?}: {:?}", s.notes);
+            total += s.solution.evaluations;
+            out[k].1 = out[k].1.max(s.solution.evaluations);
+        }
+        out[k].0 = total as f64 / grid.len() as f64;
+    }
+    out
+}
+
+/// The evaluations Colebrook–White and the dispersion relation take from their
+/// starters, printed beside those from the typical guesses (run with --nocapture).
+#[test]
+fn starters_take_few_evaluations() {
+    let mut colebrook = Vec::new();
+    for re in [4e3, 1e4, 1e5, 1e6, 1e7, 1e8] {
+        for rr in [0.0, 1e-6, 1e-5, 1e-4, 1e-3, 1e-2, 5e-2] {
+            colebrook.push(vec![("Re", re, "1"), ("eps", rr, "m"), ("D", 1.0, "m")]);
+        }
+    }
+    let mut waves = Vec::new();
+    for period in [2.0, 5.0, 8.0, 12.0, 20.0, 60.0, 1200.0] {
+        for depth in [0.5, 2.0, 10.0, 50.0, 200.0, 4000.0] {
+            waves.push(vec![("T", period, "s"), ("h", depth, "m")]);
+        }
+    }
+    let [(c_mean, c_max), (c_mean0, c_max0)] = evaluations_over("pipes.colebrook", "f", &colebrook);
+    let [(w_mean, w_max), (w_mean0, w_max0)] =
+        evaluations_over("coastal.wave-dispersion", "L", &waves);
+    println!(
+        "Colebrook f over {} cases: from the Serghides (1984) starter {c_mean:.2} evaluations \
+         (largest {c_max}); from the typical guesses {c_mean0:.2} (largest {c_max0})",
+        colebrook.len()
+    );
+    println!(
+        "dispersion L over {} cases: from the Hunt (1979) starter {w_mean:.2} evaluations \
+         (largest {w_max}); from the typical guesses {w_mean0:.2} (largest {w_max0})",
+        waves.len()
+    );
+    assert!(c_mean <= 4.5 && c_max <= 5, "Colebrook {c_mean} {c_max}");
+    assert!(w_mean <= 5.5 && w_max <= 6, "dispersion {w_mean} {w_max}");
+    assert!(c_mean < c_mean0 && w_mean < w_mean0);
 }

@@ -624,8 +624,9 @@ function showRootsCard(built, r) {
   const body = clear(byId('roots-body'));
   card.classList.toggle('has-roots', Boolean(r.otherRoots?.length));
   if (r.otherRoots?.length) {
-    body.append(h('p', null, `This equation has another branch: the solver also found ${r.otherRoots.map((x) => `${fmt(x, 8)} ${r.unit ?? ''}`).join(', ')}.`));
-    body.append(rootChoiceList([root, ...r.otherRoots].map((x) => ({ x, kind: 'sign-change' })), r.unit ?? ''));
+    const labelled = (x, label) => `${fmt(x, 8)} ${r.unit ?? ''}${label ? ` (${label})` : ''}`;
+    body.append(h('p', null, `This equation has another branch: the solver also found ${r.otherRoots.map((o) => labelled(o.value, o.label)).join(', ')}.`));
+    body.append(rootChoiceList([root, ...r.otherRoots.map((o) => o.value)].map((x) => ({ x, kind: 'sign-change' })), r.unit ?? ''));
   }
 }
 

@@ -314,6 +314,13 @@ impl Auto {
     fn secant_next(&mut self, ctx: &Context) -> Ask {
         let (x0, f0, x1, f1) = (self.x0, self.f0, self.x1, self.f1);
         if f1 == f0 {
+            // Equal values: the secant line is flat. Far below the scale of f seen, that
+            // is rounding noise at a root (claimed, for the driver to check beyond it);
+            // otherwise a plateau to search past.
+            if f1.abs() <= TOUCH_REL * self.largest_good() {
+                self.small_step = (x1 - x0).abs();
+                return self.stagnated();
+            }
             return self.start_search(ctx);
         }
         let mut x2 = x1 - f1 * ((x1 - x0) / (f1 - f0));
@@ -370,14 +377,18 @@ impl Auto {
     /// as a touching (even-multiplicity) root when |f| has fallen to [`TOUCH_REL`] of the
     /// largest |f| seen (the driver then checks that |f| shrank with the steps), and is
     /// stagnation otherwise.
+    /// The largest |f| among the good points seen.
+    fn largest_good(&self) -> f64 {
+        self.points
+            .iter()
+            .filter(|p| good(p.1))
+            .fold(0.0f64, |m, p| m.max(p.1.abs()))
+    }
+
     fn stagnated(&mut self) -> Ask {
         self.symptom = Symptom::Stagnated;
         let (x, fx) = self.best();
-        let largest = self
-            .points
-            .iter()
-            .filter(|p| good(p.1))
-            .fold(0.0f64, |m, p| m.max(p.1.abs()));
+        let largest = self.largest_good();
         let status = if fx.abs() <= TOUCH_REL * largest {
             Status::ConvergedStep
         } else {

@@ -58,7 +58,9 @@ test("a two-branch template returns both roots: area ratio to Mach number", () =
   // M = 0.3059 subsonic and M = 2.197 supersonic (table values recalled from memory).
   const r = tacit.solveTemplate({ id: "gas.area-mach", values: { AR: 2, g: 1.4 }, unknown: "M" });
   assert.equal(r.converged, true);
-  const roots = [r.value, ...r.otherRoots].sort((a, b) => a - b);
+  const roots = [r.value, ...r.otherRoots.map((o) => o.value)].sort((a, b) => a - b);
+  assert.equal(r.branch, "supersonic");
+  assert.equal(r.otherRoots[0].label, "subsonic");
   assert.equal(roots.length, 2);
   close(roots[0], 0.3059, 1e-3, "subsonic M");
   close(roots[1], 2.197, 1e-3, "supersonic M");

@@ -89,7 +89,16 @@ fn template_two_branches() {
         .unwrap(),
     );
     let mut roots = vec![num(&out["value"])];
-    roots.extend(out["otherRoots"].as_array().unwrap().iter().map(num));
+    roots.extend(
+        out["otherRoots"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|o| num(&o["value"])),
+    );
+    // The default branch of the area-Mach relation is the supersonic one, labelled.
+    assert_eq!(out["branch"], "supersonic");
+    assert_eq!(out["otherRoots"][0]["label"], "subsonic");
     roots.sort_by(f64::total_cmp);
     assert_eq!(roots.len(), 2);
     assert!((roots[0] - 0.3059).abs() < 5e-4);
