@@ -3,8 +3,10 @@
 //! - [`parse`]: our lexer and grammar check (positions, limits, `.5`), then meval's
 //!   tokenizer and shunting-yard on a normalised text; [`caret`] for error display.
 //! - [`functions`]: the table of functions and constants.
-//! - [`program`]: meval's RPN compiled to a slot program, bit-identical to
-//!   `meval::Expr::eval_with_context`, with no name lookup or allocation per evaluation.
+//! - [`program`]: meval's RPN compiled to a slot program with no name lookup or
+//!   allocation per evaluation, walked by any [`program::Number`]; its point value is
+//!   `meval::Expr::eval_with_context`'s except for integer powers (see
+//!   [`functions::power`]).
 //! - [`set`]: [`EquationSet`], equations plus `name := expr` definitions in dependency
 //!   order, and [`EquationSet::residual_fn`] for sweeps.
 //! - [`solve`]: [`solve_set`] for any variable(s), default guesses.
