@@ -10,7 +10,10 @@
 use std::time::{Duration, Instant};
 
 use proptest::prelude::*;
-use tacit::equations::functions::{reference_context, FUNCTIONS};
+
+mod common;
+use common::{expression, value};
+use tacit::equations::functions::reference_context;
 use tacit::equations::{solve_set, EquationSet, Expression, UnknownSpec};
 use tacit::Options;
 
@@ -70,56 +73,6 @@ proptest! {
     ) {
         read_every_way(&text);
     }
-}
-
-/// Random expressions over x, y, z with every operator and function of the language.
-fn expression() -> impl Strategy<Value = String> {
-    let leaf = prop_oneof![
-        Just("x".to_string()),
-        Just("y".to_string()),
-        Just("z".to_string()),
-        Just("pi".to_string()),
-        Just("e".to_string()),
-        (0u32..1000).prop_map(|n| format!("{n}")),
-        (0u32..1000).prop_map(|n| format!(".{n}")),
-        (1u32..100, -5i32..5).prop_map(|(m, k)| format!("{m}.5e{k}")),
-    ];
-    leaf.prop_recursive(6, 64, 6, |inner| {
-        let binary = (
-            inner.clone(),
-            prop::sample::select(vec!["+", "-", "*", "/", "%", "^"]),
-            inner.clone(),
-        )
-            .prop_map(|(a, op, b)| format!("{a} {op} {b}"));
-        let paren = inner.clone().prop_map(|a| format!("({a})"));
-        let unary = (prop::sample::select(vec!["-", "+"]), inner.clone())
-            .prop_map(|(s, a)| format!("{s}{a}"));
-        let call = (
-            prop::sample::select(FUNCTIONS.iter().map(|f| f.name).collect::<Vec<_>>()),
-            prop::collection::vec(inner, 1..5),
-        )
-            .prop_map(|(name, args)| {
-                let f = tacit::equations::functions::find(name).unwrap();
-                let n = match f.arity {
-                    tacit::equations::functions::Arity::Exact(k) => k,
-                    tacit::equations::functions::Arity::AtLeast(k) => k.max(args.len()),
-                };
-                let args: Vec<String> = args.iter().cycle().take(n).cloned().collect();
-                format!("{name}({})", args.join(", "))
-            });
-        prop_oneof![binary, paren, unary, call]
-    })
-}
-
-fn value() -> impl Strategy<Value = f64> {
-    prop_oneof![
-        -10.0f64..10.0,
-        Just(0.0),
-        Just(-0.0),
-        Just(1.0),
-        -1e6f64..1e6,
-        (1e-300f64..1e-200),
-    ]
 }
 
 /// Same bits, or both NaN (NaN payloads are not part of the language).

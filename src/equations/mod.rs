@@ -7,6 +7,8 @@
 //!   allocation per evaluation, walked by any [`program::Number`]; its point value is
 //!   `meval::Expr::eval_with_context`'s except for integer powers (see
 //!   [`functions::power`]).
+//! - [`interval`]: [`Interval`], the enclosure of a program's values over a box,
+//!   outward-rounded, with a flag for points where it is undefined.
 //! - [`set`]: [`EquationSet`], equations plus `name := expr` definitions in dependency
 //!   order, and [`EquationSet::residual_fn`] for sweeps.
 //! - [`solve`]: [`solve_set`] for any variable(s), default guesses.
@@ -23,6 +25,7 @@
 //! ```
 
 pub mod functions;
+pub mod interval;
 pub mod parse;
 pub mod program;
 pub mod sensitivity;
@@ -30,6 +33,7 @@ pub mod set;
 pub mod solve;
 pub mod system;
 
+pub use interval::Interval;
 pub use parse::{caret, Expression, MAX_DEPTH, MAX_TEXT_BYTES};
 pub use program::{Operand, Program};
 pub use sensitivity::Sensitivity;

@@ -557,6 +557,20 @@ impl Program {
     }
 }
 
+/// `npv(rate, c0, …, cn)` for any [`Number`], by the same steps as the point value
+/// (Horner's rule from the last cash flow: `acc / (1 + rate) + c`).
+pub(crate) fn npv<N: Number>(args: &[N]) -> N {
+    let Some((&rate, flows)) = args.split_first() else {
+        return N::undefined();
+    };
+    let g = N::constant(1.0).add(rate);
+    let mut acc = N::constant(0.0);
+    for &c in flows.iter().rev() {
+        acc = acc.div(g).add(c);
+    }
+    acc
+}
+
 struct Builder {
     ops: Vec<Op>,
     /// For each operand on the compile-time stack, the index of its first operation.
