@@ -476,7 +476,8 @@ fn power_point(x: Interval, y: f64) -> Interval {
 /// `x^y` over a box of both ([`functions::power`]).
 fn power_box(x: Interval, y: Interval) -> Interval {
     if y.is_empty() {
-        return Interval::UNDEFINED;
+        // pow(1, NaN) = 1.
+        return power_point(x, f64::NAN);
     }
     if y.lo == y.hi {
         return power_point(x, y.lo).with_undefined(y.maybe_undefined);
@@ -600,7 +601,13 @@ fn multiply(x: Interval, y: Interval) -> Interval {
         || (x.contains_zero() && y.has_inf())
         || (y.contains_zero() && x.has_inf());
     // A product is an exact zero only with a zero factor.
-    corners(x, y, |a, b| (a * b, a == 0.0 || b == 0.0), undefined)
+    let r = corners(x, y, |a, b| (a * b, a == 0.0 || b == 0.0), undefined);
+    // 0 · [−∞, ∞]: every corner is NaN, yet 0 times each finite value is 0.
+    let zero_times_finite = |z: Interval, o: Interval| z.lo == 0.0 && z.hi == 0.0 && o.lo < o.hi;
+    if r.is_empty() && (zero_times_finite(x, y) || zero_times_finite(y, x)) {
+        return Interval::point(0.0).with_undefined(undefined);
+    }
+    r
 }
 
 /// `min` or `max` of the arguments (`pick` is `f64::min` or `f64::max`, `start` its

@@ -7,6 +7,8 @@
 //!   allocation per evaluation, walked by any [`program::Number`]; its point value is
 //!   `meval::Expr::eval_with_context`'s except for integer powers (see
 //!   [`functions::power`]).
+//! - [`dual`]: [`Dual`], forward-mode derivatives of a program (over `f64`, or over
+//!   intervals for slopes over a box).
 //! - [`interval`]: [`Interval`], the enclosure of a program's values over a box,
 //!   outward-rounded, with a flag for points where it is undefined.
 //! - [`set`]: [`EquationSet`], equations plus `name := expr` definitions in dependency
@@ -24,6 +26,7 @@
 //! assert_eq!(s.unknowns[0], ("x".to_string(), 3.0));
 //! ```
 
+pub mod dual;
 pub mod functions;
 pub mod interval;
 pub mod parse;
@@ -33,6 +36,7 @@ pub mod set;
 pub mod solve;
 pub mod system;
 
+pub use dual::Dual;
 pub use interval::Interval;
 pub use parse::{caret, Expression, MAX_DEPTH, MAX_TEXT_BYTES};
 pub use program::{Operand, Program};
