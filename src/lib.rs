@@ -17,6 +17,7 @@ pub mod equations;
 pub mod error;
 pub mod methods;
 pub mod outcome;
+pub mod proven_roots;
 pub mod roots_in_range;
 mod stepper_record;
 pub mod templates;

@@ -11,6 +11,8 @@
 //!   intervals for slopes over a box).
 //! - [`interval`]: [`Interval`], the enclosure of a program's values over a box,
 //!   outward-rounded, with a flag for points where it is undefined.
+//! - [`residual`]: [`Residual`], one equation's residual in its unknown as a point,
+//!   interval, derivative or slope, with knowns that can stay variable.
 //! - [`set`]: [`EquationSet`], equations plus `name := expr` definitions in dependency
 //!   order, and [`EquationSet::residual_fn`] for sweeps.
 //! - [`solve`]: [`solve_set`] for any variable(s), default guesses.
@@ -31,6 +33,7 @@ pub mod functions;
 pub mod interval;
 pub mod parse;
 pub mod program;
+pub mod residual;
 pub mod sensitivity;
 pub mod set;
 pub mod solve;
@@ -40,6 +43,7 @@ pub use dual::Dual;
 pub use interval::Interval;
 pub use parse::{caret, Expression, MAX_DEPTH, MAX_TEXT_BYTES};
 pub use program::{Operand, Program};
+pub use residual::Residual;
 pub use sensitivity::Sensitivity;
 pub use set::EquationSet;
 pub use solve::{default_guesses, solve_set, BlockReport, SetSolution, UnknownSpec};
