@@ -22,6 +22,7 @@ pub mod roots_in_range;
 mod stepper_record;
 pub mod templates;
 pub mod tolerances;
+pub mod uncertainty;
 pub mod units;
 
 pub use driver::{solve, MethodKind, Options, Start, Stepper};
