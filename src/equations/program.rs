@@ -26,9 +26,14 @@
 //!   compile time with the same Rust operation, and its result stored;
 //! - *sharing*: a subexpression that occurs more than once (`sqrt(f)` twice in the
 //!   Colebrook residual) is computed once and kept; every function is pure, so the
-//!   kept value has the bits a recomputation would have.
+//!   kept value has the bits a recomputation would have;
+//! - *push forms*: a push of a slot or constant and the operation on it that follows
+//!   become one operation (`Load(s), MulConst(c)` is `LoadMulConst(s, c)`): one
+//!   dispatch instead of two.
 //!
-//! Unary plus is dropped (meval pushes the value back unchanged), and so is `^1`.
+//! Integer powers −1 to 4 become `PowInt(n)` (multiplications), and `^1` is dropped.
+//!
+//! Unary plus is dropped (meval pushes the value back unchanged).
 
 use super::functions::{self, Func};
 use super::parse::Expression;
