@@ -407,18 +407,19 @@ impl Program {
         // `sp` counts the values below the top; `acc` is the top.
         let mut acc = N::constant(0.0);
         let mut sp = 0usize;
+        // Pushes the top and makes `$v` (which does not read the top) the new top.
+        macro_rules! push {
+            ($v:expr) => {{
+                let v = $v;
+                stack[sp] = acc;
+                sp += 1;
+                acc = v;
+            }};
+        }
         for op in &self.ops {
             match *op {
-                Op::Load(s) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize];
-                }
-                Op::Const(v) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = N::constant(v);
-                }
+                Op::Load(s) => push!(slots[s as usize]),
+                Op::Const(v) => push!(N::constant(v)),
                 Op::Neg => acc = acc.neg(),
                 Op::Add => {
                     sp -= 1;
@@ -485,77 +486,21 @@ impl Program {
                     acc = N::call_n(f, &stack[sp + 1 - n..=sp]);
                     sp -= n - 1;
                 }
-                Op::LoadAddConst(s, c) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].add(N::constant(c));
-                }
-                Op::LoadSubConst(s, c) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].sub(N::constant(c));
-                }
-                Op::LoadMulConst(s, c) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].mul(N::constant(c));
-                }
-                Op::LoadDivConst(s, c) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].div(N::constant(c));
-                }
-                Op::ConstSubLoad(c, s) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = N::constant(c).sub(slots[s as usize]);
-                }
-                Op::ConstDivLoad(c, s) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = N::constant(c).div(slots[s as usize]);
-                }
-                Op::LoadAddLoad(s, t) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].add(slots[t as usize]);
-                }
-                Op::LoadSubLoad(s, t) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].sub(slots[t as usize]);
-                }
-                Op::LoadMulLoad(s, t) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].mul(slots[t as usize]);
-                }
-                Op::LoadDivLoad(s, t) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].div(slots[t as usize]);
-                }
-                Op::LoadPowInt(s, n) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].powi(n);
-                }
-                Op::LoadSqrt(s) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].call1(Func::Sqrt);
-                }
-                Op::LoadCall1(s, f) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize].call1(f);
-                }
+                Op::LoadAddConst(s, c) => push!(slots[s as usize].add(N::constant(c))),
+                Op::LoadSubConst(s, c) => push!(slots[s as usize].sub(N::constant(c))),
+                Op::LoadMulConst(s, c) => push!(slots[s as usize].mul(N::constant(c))),
+                Op::LoadDivConst(s, c) => push!(slots[s as usize].div(N::constant(c))),
+                Op::ConstSubLoad(c, s) => push!(N::constant(c).sub(slots[s as usize])),
+                Op::ConstDivLoad(c, s) => push!(N::constant(c).div(slots[s as usize])),
+                Op::LoadAddLoad(s, t) => push!(slots[s as usize].add(slots[t as usize])),
+                Op::LoadSubLoad(s, t) => push!(slots[s as usize].sub(slots[t as usize])),
+                Op::LoadMulLoad(s, t) => push!(slots[s as usize].mul(slots[t as usize])),
+                Op::LoadDivLoad(s, t) => push!(slots[s as usize].div(slots[t as usize])),
+                Op::LoadPowInt(s, n) => push!(slots[s as usize].powi(n)),
+                Op::LoadSqrt(s) => push!(slots[s as usize].call1(Func::Sqrt)),
+                Op::LoadCall1(s, f) => push!(slots[s as usize].call1(f)),
                 Op::Store(i) => stack[i as usize] = acc,
-                Op::Fetch(i) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = stack[i as usize];
-                }
+                Op::Fetch(i) => push!(stack[i as usize]),
             }
         }
         acc
