@@ -7,8 +7,10 @@ export TACIT_SETUP_DONE=1
 
 printf '\n==== evaluation economy of the open (two-guess) default against the plain secant\n'
 cargo run --quiet --release --example bench_open
-printf '\n==== compiled equations against meval\n'
+printf '\n==== compiled equations against hand-written Rust and meval\n'
 cargo run --quiet --release --example bench_eval
+printf '\n==== proven roots against the sampling scan; Monte Carlo throughput\n'
+cargo run --quiet --release --example bench_proof
 printf '\n==== the WebAssembly module\n'
 bash scripts/build-pkg.sh
 node scripts/bench-wasm.mjs

@@ -53,3 +53,16 @@ pub fn require_finite(value: f64, what: &str) -> Result<f64, InputError> {
         ))
     }
 }
+
+/// A finite range `[lo, hi]` with `lo < hi`, or an error naming the end at fault.
+pub fn require_range(lo: f64, hi: f64) -> Result<(f64, f64), InputError> {
+    require_finite(lo, "range lower end")?;
+    require_finite(hi, "range upper end")?;
+    if lo >= hi {
+        return Err(InputError::new(
+            "bad-range",
+            format!("the range lower end {lo} must be below the upper end {hi}"),
+        ));
+    }
+    Ok((lo, hi))
+}

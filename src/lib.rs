@@ -21,11 +21,13 @@ pub mod equations;
 pub mod error;
 pub mod methods;
 pub mod outcome;
+pub mod proven_roots;
 pub mod roots_in_range;
 pub mod stepper;
 mod stepper_record;
 pub mod templates;
 pub mod tolerances;
+pub mod uncertainty;
 pub mod units;
 
 pub use certificate::{Certificate, CertificateKind};

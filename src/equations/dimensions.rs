@@ -657,7 +657,7 @@ mod tests {
                 }
                 Step::Call(f, n, _) => {
                     let args = stack.split_off(stack.len() - n);
-                    f.implementation.call(&args)
+                    f.func.call(&args)
                 }
             };
             stack.push(v);

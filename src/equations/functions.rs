@@ -31,34 +31,14 @@ impl Arity {
     }
 }
 
-/// The implementation of a function, by number of arguments.
-#[derive(Clone, Copy)]
-pub enum Implementation {
-    One(fn(f64) -> f64),
-    Two(fn(f64, f64) -> f64),
-    Three(fn(f64, f64, f64) -> f64),
-    Many(fn(&[f64]) -> f64),
-}
-
-impl Implementation {
-    /// Calls the function on `args`; the caller has checked the count.
-    pub fn call(self, args: &[f64]) -> f64 {
-        match (self, args) {
-            (Implementation::One(f), [a]) => f(*a),
-            (Implementation::Two(f), [a, b]) => f(*a, *b),
-            (Implementation::Three(f), [a, b, c]) => f(*a, *b, *c),
-            (Implementation::Many(f), _) => f(args),
-            _ => f64::NAN,
-        }
-    }
-}
-
 /// One function of the language.
 #[derive(Clone, Copy)]
 pub struct Function {
     pub name: &'static str,
     pub arity: Arity,
-    pub implementation: Implementation,
+    /// Which function: the compiled programs and every evaluator over them (point,
+    /// interval, dual numbers) dispatch on this.
+    pub func: Func,
     /// One line for the language table.
     pub summary: &'static str,
 }
@@ -91,6 +71,28 @@ fn degrees(x: f64) -> f64 {
 }
 fn radians(x: f64) -> f64 {
     x.to_radians()
+}
+
+/// Inverse hyperbolic cosine by the steps of fdlibm's `e_acosh.c` (Sun Microsystems,
+/// 1993; FreeBSD msun): accurate near 1, where the standard library's
+/// ln(x + √(x − 1)·√(x + 1)) loses digits (4e-12 relative at x = 1 + 1e-10 against
+/// mpmath; `tests/interval_props.rs`).
+fn acosh(x: f64) -> f64 {
+    if x.is_nan() || x < 1.0 {
+        f64::NAN
+    } else if x >= 268_435_456.0 {
+        // 2^28 ≤ x: x + √(x² − 1) is 2x to double precision.
+        if x.is_infinite() {
+            x
+        } else {
+            x.ln() + std::f64::consts::LN_2
+        }
+    } else if x > 2.0 {
+        (2.0 * x - 1.0 / (x + (x * x - 1.0).sqrt())).ln()
+    } else {
+        let t = x - 1.0;
+        (t + (2.0 * t + t * t).sqrt()).ln_1p()
+    }
 }
 
 /// -1, 0 or +1 (0 for both zeros), NaN for NaN.
@@ -170,12 +172,199 @@ fn npv(args: &[f64]) -> f64 {
     acc
 }
 
+/// A function of the language, by identity. The point value of each is below
+/// ([`Func::call`]); the interval and dual-number evaluators give their own meaning to
+/// the same names, so a new function must be added to every `match` on `Func`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum Func {
+    Sqrt,
+    Cbrt,
+    Exp,
+    Ln,
+    Expm1,
+    Log1p,
+    Log10,
+    Log2,
+    Abs,
+    Sin,
+    Cos,
+    Tan,
+    Sec,
+    Csc,
+    Cot,
+    Asin,
+    Acos,
+    Atan,
+    Sinh,
+    Cosh,
+    Tanh,
+    Asinh,
+    Acosh,
+    Atanh,
+    Deg,
+    Rad,
+    Floor,
+    Ceil,
+    Round,
+    Sign,
+    Signum,
+    Atan2,
+    Hypot,
+    Clamp,
+    When,
+    Min,
+    Max,
+    Npv,
+}
+
+impl Func {
+    /// The value of a one-argument function; NaN for a function of another arity.
+    #[inline]
+    pub fn apply1(self, x: f64) -> f64 {
+        match self {
+            Func::Sqrt => x.sqrt(),
+            Func::Cbrt => x.cbrt(),
+            Func::Exp => x.exp(),
+            Func::Ln => x.ln(),
+            Func::Expm1 => x.exp_m1(),
+            Func::Log1p => x.ln_1p(),
+            Func::Log10 => x.log10(),
+            Func::Log2 => x.log2(),
+            Func::Abs => x.abs(),
+            Func::Sin => x.sin(),
+            Func::Cos => x.cos(),
+            Func::Tan => x.tan(),
+            Func::Sec => sec(x),
+            Func::Csc => csc(x),
+            Func::Cot => cot(x),
+            Func::Asin => x.asin(),
+            Func::Acos => x.acos(),
+            Func::Atan => x.atan(),
+            Func::Sinh => x.sinh(),
+            Func::Cosh => x.cosh(),
+            Func::Tanh => x.tanh(),
+            Func::Asinh => x.asinh(),
+            Func::Acosh => acosh(x),
+            Func::Atanh => x.atanh(),
+            Func::Deg => degrees(x),
+            Func::Rad => radians(x),
+            Func::Floor => x.floor(),
+            Func::Ceil => x.ceil(),
+            Func::Round => x.round(),
+            Func::Sign => sign(x),
+            Func::Signum => x.signum(),
+            Func::Min | Func::Max => self.call(&[x]),
+            _ => f64::NAN,
+        }
+    }
+
+    /// The value of a two-argument function; NaN for a function of another arity.
+    #[inline]
+    pub fn apply2(self, a: f64, b: f64) -> f64 {
+        match self {
+            Func::Atan2 => a.atan2(b),
+            Func::Hypot => a.hypot(b),
+            Func::Min | Func::Max | Func::Npv => self.call(&[a, b]),
+            _ => f64::NAN,
+        }
+    }
+
+    /// The value of a three-argument function; NaN for a function of another arity.
+    #[inline]
+    pub fn apply3(self, a: f64, b: f64, c: f64) -> f64 {
+        match self {
+            Func::Clamp => clamp(a, b, c),
+            Func::When => when(a, b, c),
+            Func::Min | Func::Max | Func::Npv => self.call(&[a, b, c]),
+            _ => f64::NAN,
+        }
+    }
+
+    /// The value at `args`; NaN when the count does not suit the function.
+    pub fn call(self, args: &[f64]) -> f64 {
+        match (self, args) {
+            (Func::Min, [_, ..]) => min_of(args),
+            (Func::Max, [_, ..]) => max_of(args),
+            (Func::Npv, [_, _, ..]) => npv(args),
+            (Func::Min | Func::Max | Func::Npv, _) => f64::NAN,
+            (_, [x]) => self.apply1(*x),
+            (_, [a, b]) => self.apply2(*a, *b),
+            (_, [a, b, c]) => self.apply3(*a, *b, *c),
+            _ => f64::NAN,
+        }
+    }
+}
+
+/// The integer exponents that `^` computes by multiplication rather than by `powf`
+/// (see [`power`]).
+pub const MULTIPLIED_EXPONENTS: std::ops::RangeInclusive<i32> = -1..=4;
+
+/// The exponent as an integer when `^` computes it by multiplication.
+#[inline]
+pub fn multiplied_exponent(y: f64) -> Option<i32> {
+    // `as` truncates; comparing back is exact for these small values (no libm call).
+    if (-1.0..=4.0).contains(&y) && (y as i32) as f64 == y {
+        Some(y as i32)
+    } else {
+        None
+    }
+}
+
+/// `x^n` for `n` in [`MULTIPLIED_EXPONENTS`], by multiplication; `powf` otherwise.
+#[inline]
+pub fn power_int(x: f64, n: i32) -> f64 {
+    match n {
+        -1 => 1.0 / x,
+        0 => 1.0,
+        1 => x,
+        2 => x * x,
+        3 => x * x * x,
+        4 => {
+            let s = x * x;
+            s * s
+        }
+        _ => x.powf(n as f64),
+    }
+}
+
+/// The language's power `x^y`.
+///
+/// For `y` in {−1, 0, 1, 2, ½} the result is the correctly rounded value of xʸ (one
+/// IEEE operation: `1/x`, `x*x`, `sqrt`), with IEEE `pow`'s special cases (`x^0` is 1
+/// even for NaN; `(-0)^½` is +0 and `(−∞)^½` is +∞). For `y` = 3 and 4 it is `x*x*x`
+/// and `(x*x)*(x*x)`: two roundings, so within 2 and 3 units in the last place of the
+/// exact power (not correctly rounded). Every other `y` is `x.powf(y)`.
+///
+/// **A deliberate difference from `powf`** (and from meval, which uses `powf` for every
+/// `^`): a multiplication costs a few cycles where `powf` costs some forty, and integer
+/// powers are the common case in engineering formulas. The platform `pow` is not
+/// correctly rounded either: glibc 2.36's differs from `x*x` for `y = 2` in about 4 of
+/// 10 000 random arguments (by one unit in the last place); the wasm32 math library
+/// (a port of musl/FreeBSD's `e_pow.c`) computes `y = 2` as `x*x` and `y = −1` as `1/x`
+/// itself. `tests/equations_power.rs` checks the error bounds against a double-double
+/// reference and against `powf`.
+#[inline]
+pub fn power(x: f64, y: f64) -> f64 {
+    if let Some(n) = multiplied_exponent(y) {
+        power_int(x, n)
+    } else if y == 0.5 {
+        if x == f64::NEG_INFINITY {
+            f64::INFINITY
+        } else {
+            // + 0.0 turns the −0 of sqrt(−0) into pow's +0.
+            x.sqrt() + 0.0
+        }
+    } else {
+        x.powf(y)
+    }
+}
+
 macro_rules! f1 {
-    ($name:expr, $f:expr, $doc:expr) => {
+    ($name:expr, $f:ident, $doc:expr) => {
         Function {
             name: $name,
             arity: Arity::Exact(1),
-            implementation: Implementation::One($f),
+            func: Func::$f,
             summary: $doc,
         }
     };
@@ -183,93 +372,85 @@ macro_rules! f1 {
 
 /// Every function of the language.
 pub const FUNCTIONS: &[Function] = &[
-    f1!("sqrt", f64::sqrt, "square root"),
-    f1!("cbrt", f64::cbrt, "cube root"),
-    f1!("exp", f64::exp, "e to the power x"),
-    f1!("ln", f64::ln, "natural logarithm"),
+    f1!("sqrt", Sqrt, "square root"),
+    f1!("cbrt", Cbrt, "cube root"),
+    f1!("exp", Exp, "e to the power x"),
+    f1!("ln", Ln, "natural logarithm"),
     f1!(
         "expm1",
-        f64::exp_m1,
+        Expm1,
         "e^x − 1, exact for small x (no cancellation)"
     ),
     f1!(
         "log1p",
-        f64::ln_1p,
+        Log1p,
         "ln(1 + x), exact for small x (no cancellation)"
     ),
-    f1!("log10", f64::log10, "base-10 logarithm"),
-    f1!("log2", f64::log2, "base-2 logarithm"),
-    f1!("abs", f64::abs, "absolute value"),
-    f1!("sin", f64::sin, "sine (radians)"),
-    f1!("cos", f64::cos, "cosine (radians)"),
-    f1!("tan", f64::tan, "tangent (radians)"),
-    f1!("sec", sec, "secant, 1/cos x"),
-    f1!("csc", csc, "cosecant, 1/sin x"),
-    f1!("cot", cot, "cotangent, 1/tan x"),
-    f1!("asin", f64::asin, "inverse sine (radians)"),
-    f1!("acos", f64::acos, "inverse cosine (radians)"),
-    f1!("atan", f64::atan, "inverse tangent (radians)"),
-    f1!("sinh", f64::sinh, "hyperbolic sine"),
-    f1!("cosh", f64::cosh, "hyperbolic cosine"),
-    f1!("tanh", f64::tanh, "hyperbolic tangent"),
-    f1!("asinh", f64::asinh, "inverse hyperbolic sine"),
-    f1!("acosh", f64::acosh, "inverse hyperbolic cosine"),
-    f1!("atanh", f64::atanh, "inverse hyperbolic tangent"),
-    f1!("deg", degrees, "radians to degrees"),
-    f1!("rad", radians, "degrees to radians"),
-    f1!("floor", f64::floor, "largest integer ≤ x"),
-    f1!("ceil", f64::ceil, "smallest integer ≥ x"),
-    f1!(
-        "round",
-        f64::round,
-        "nearest integer, halves away from zero"
-    ),
-    f1!("sign", sign, "-1, 0 or 1"),
-    f1!(
-        "signum",
-        f64::signum,
-        "-1 or 1 by the sign bit (signum(0) = 1)"
-    ),
+    f1!("log10", Log10, "base-10 logarithm"),
+    f1!("log2", Log2, "base-2 logarithm"),
+    f1!("abs", Abs, "absolute value"),
+    f1!("sin", Sin, "sine (radians)"),
+    f1!("cos", Cos, "cosine (radians)"),
+    f1!("tan", Tan, "tangent (radians)"),
+    f1!("sec", Sec, "secant, 1/cos x"),
+    f1!("csc", Csc, "cosecant, 1/sin x"),
+    f1!("cot", Cot, "cotangent, 1/tan x"),
+    f1!("asin", Asin, "inverse sine (radians)"),
+    f1!("acos", Acos, "inverse cosine (radians)"),
+    f1!("atan", Atan, "inverse tangent (radians)"),
+    f1!("sinh", Sinh, "hyperbolic sine"),
+    f1!("cosh", Cosh, "hyperbolic cosine"),
+    f1!("tanh", Tanh, "hyperbolic tangent"),
+    f1!("asinh", Asinh, "inverse hyperbolic sine"),
+    f1!("acosh", Acosh, "inverse hyperbolic cosine"),
+    f1!("atanh", Atanh, "inverse hyperbolic tangent"),
+    f1!("deg", Deg, "radians to degrees"),
+    f1!("rad", Rad, "degrees to radians"),
+    f1!("floor", Floor, "largest integer ≤ x"),
+    f1!("ceil", Ceil, "smallest integer ≥ x"),
+    f1!("round", Round, "nearest integer, halves away from zero"),
+    f1!("sign", Sign, "-1, 0 or 1"),
+    f1!("signum", Signum, "-1 or 1 by the sign bit (signum(0) = 1)"),
     Function {
         name: "atan2",
         arity: Arity::Exact(2),
-        implementation: Implementation::Two(f64::atan2),
+        func: Func::Atan2,
         summary: "atan2(y, x): angle of the point (x, y), radians",
     },
     Function {
         name: "hypot",
         arity: Arity::Exact(2),
-        implementation: Implementation::Two(f64::hypot),
+        func: Func::Hypot,
         summary: "hypot(a, b) = sqrt(a² + b²) without overflow",
     },
     Function {
         name: "clamp",
         arity: Arity::Exact(3),
-        implementation: Implementation::Three(clamp),
+        func: Func::Clamp,
         summary: "clamp(x, lo, hi): x limited to [lo, hi]; NaN if lo > hi",
     },
     Function {
         name: "when",
         arity: Arity::Exact(3),
-        implementation: Implementation::Three(when),
+        func: Func::When,
         summary: "when(t, a, b): a if t > 0, else b (NaN if t is NaN)",
     },
     Function {
         name: "min",
         arity: Arity::AtLeast(1),
-        implementation: Implementation::Many(min_of),
+        func: Func::Min,
         summary: "smallest argument (NaN if any is NaN)",
     },
     Function {
         name: "max",
         arity: Arity::AtLeast(1),
-        implementation: Implementation::Many(max_of),
+        func: Func::Max,
         summary: "largest argument (NaN if any is NaN)",
     },
     Function {
         name: "npv",
         arity: Arity::AtLeast(2),
-        implementation: Implementation::Many(npv),
+        func: Func::Npv,
         summary: "npv(rate, c0, …, cn) = Σ c_k / (1 + rate)^k",
     },
 ];
@@ -289,13 +470,13 @@ pub fn reference_context() -> meval::Context<'static> {
         ctx.var(name, value);
     }
     for f in FUNCTIONS {
-        let imp = f.implementation;
+        let func = f.func;
         match f.arity {
             Arity::Exact(k) => {
-                ctx.funcn(f.name, move |xs: &[f64]| imp.call(xs), k);
+                ctx.funcn(f.name, move |xs: &[f64]| func.call(xs), k);
             }
             Arity::AtLeast(k) => {
-                ctx.funcn(f.name, move |xs: &[f64]| imp.call(xs), k..);
+                ctx.funcn(f.name, move |xs: &[f64]| func.call(xs), k..);
             }
         }
     }

@@ -4,11 +4,21 @@
 //! evaluation does no name lookup, no hashing and no allocation: it walks a `Vec<Op>`
 //! over a caller-provided stack.
 //!
-//! **Bit-identical to meval.** Each operation does exactly what
-//! `meval::Expr::eval_with_context` does for the same RPN token (`left.powf(right)` for
-//! `^`, `left % right` for `%`, the same function pointers as
-//! [`super::functions::reference_context`]). The two rewrites the compiler makes keep
-//! every bit:
+//! **One program, several kinds of number.** [`Program::run`] walks the program with
+//! any [`Number`]; `f64` is the point value ([`Program::eval_with`]). Functions keep
+//! their identity ([`Func`]) in the program, so each kind of number gives each function
+//! its own meaning.
+//!
+//! **The point value is meval's, except for `^`.** Each operation does what
+//! `meval::Expr::eval_with_context` does for the same RPN token (`left % right` for
+//! `%`, the functions of [`super::functions::reference_context`]), except the power:
+//! `^` is [`functions::power`], which multiplies for the exponents −1 to 4 (and takes
+//! a square root for ½) where meval calls `powf`. For −1, 0, 1, 2 and ½ that is the
+//! correctly rounded power; for 3 and 4 it is within 2 and 3 units in the last place
+//! (see [`functions::power`]; `tests/equations_power.rs` checks both against a
+//! double-double reference and `powf`). Programs without such powers are bit-identical
+//! to meval, and the property tests check it. The rewrites the compiler makes keep
+//! every bit of that value:
 //! - *fused operands*: `x * 2.5` becomes one `MulConst(2.5)` instead of a push and a
 //!   multiply, `1/sqrt(f)` a square root then `ConstDiv(1)`; the same `left ⊕ right`
 //!   is computed, operands in the same order;
@@ -16,11 +26,16 @@
 //!   compile time with the same Rust operation, and its result stored;
 //! - *sharing*: a subexpression that occurs more than once (`sqrt(f)` twice in the
 //!   Colebrook residual) is computed once and kept; every function is pure, so the
-//!   kept value has the bits a recomputation would have.
+//!   kept value has the bits a recomputation would have;
+//! - *push forms*: a push of a slot or constant and the operation on it that follows
+//!   become one operation (`Load(s), MulConst(c)` is `LoadMulConst(s, c)`): one
+//!   dispatch instead of two.
+//!
+//! Integer powers −1 to 4 become `PowInt(n)` (multiplications), and `^1` is dropped.
 //!
 //! Unary plus is dropped (meval pushes the value back unchanged).
 
-use super::functions::{self, Implementation};
+use super::functions::{self, Func};
 use super::parse::Expression;
 use crate::error::InputError;
 use meval::tokenizer::{Operation, Token};
@@ -33,6 +48,94 @@ pub enum Operand {
     Slot(usize),
     /// A fixed value, folded into the program.
     Value(f64),
+}
+
+/// A kind of number a [`Program`] can be run with: the operations of the language.
+///
+/// `f64` is the point value. Each method gives the meaning of one operation of the language; a
+/// constant of the program (a number in the text, a folded known) enters through
+/// [`Number::constant`].
+pub trait Number: Copy {
+    /// A fixed value of the program.
+    fn constant(c: f64) -> Self;
+    /// The result of a program that cannot run (slots or stack too short).
+    fn undefined() -> Self;
+    fn neg(self) -> Self;
+    fn add(self, rhs: Self) -> Self;
+    fn sub(self, rhs: Self) -> Self;
+    fn mul(self, rhs: Self) -> Self;
+    fn div(self, rhs: Self) -> Self;
+    /// Remainder with the sign of the dividend (`%`).
+    fn rem(self, rhs: Self) -> Self;
+    /// The language's `^`: [`functions::power`].
+    fn pow(self, rhs: Self) -> Self;
+    /// `^n` with a constant exponent `n` in [`functions::MULTIPLIED_EXPONENTS`]:
+    /// [`functions::power_int`].
+    fn powi(self, n: i32) -> Self;
+    fn call1(self, f: Func) -> Self;
+    fn call2(f: Func, a: Self, b: Self) -> Self;
+    fn call3(f: Func, a: Self, b: Self, c: Self) -> Self;
+    /// A function of any number of arguments (`min`, `max`, `npv`).
+    fn call_n(f: Func, args: &[Self]) -> Self;
+}
+
+impl Number for f64 {
+    #[inline(always)]
+    fn constant(c: f64) -> f64 {
+        c
+    }
+    #[inline(always)]
+    fn undefined() -> f64 {
+        f64::NAN
+    }
+    #[inline(always)]
+    fn neg(self) -> f64 {
+        -self
+    }
+    #[inline(always)]
+    fn add(self, rhs: f64) -> f64 {
+        self + rhs
+    }
+    #[inline(always)]
+    fn sub(self, rhs: f64) -> f64 {
+        self - rhs
+    }
+    #[inline(always)]
+    fn mul(self, rhs: f64) -> f64 {
+        self * rhs
+    }
+    #[inline(always)]
+    fn div(self, rhs: f64) -> f64 {
+        self / rhs
+    }
+    #[inline(always)]
+    fn rem(self, rhs: f64) -> f64 {
+        self % rhs
+    }
+    #[inline(always)]
+    fn pow(self, rhs: f64) -> f64 {
+        functions::power(self, rhs)
+    }
+    #[inline(always)]
+    fn powi(self, n: i32) -> f64 {
+        functions::power_int(self, n)
+    }
+    #[inline(always)]
+    fn call1(self, f: Func) -> f64 {
+        f.apply1(self)
+    }
+    #[inline(always)]
+    fn call2(f: Func, a: f64, b: f64) -> f64 {
+        f.apply2(a, b)
+    }
+    #[inline(always)]
+    fn call3(f: Func, a: f64, b: f64, c: f64) -> f64 {
+        f.apply3(a, b, c)
+    }
+    #[inline]
+    fn call_n(f: Func, args: &[f64]) -> f64 {
+        f.call(args)
+    }
 }
 
 /// One operation. The top of the stack is kept in a register (`acc`); `Stack` forms take
@@ -73,10 +176,28 @@ enum Op {
     PowLoad(u32),
     ConstPow(f64),
     LoadPow(u32),
-    Call1(fn(f64) -> f64),
-    Call2(fn(f64, f64) -> f64),
-    Call3(fn(f64, f64, f64) -> f64),
-    CallN(fn(&[f64]) -> f64, u32),
+    /// `^n` for a constant integer n in [`functions::MULTIPLIED_EXPONENTS`].
+    PowInt(i32),
+    Sqrt,
+    Call1(Func),
+    Call2(Func),
+    Call3(Func),
+    CallN(Func, u32),
+    /// Push forms: push, then compute from slots and constants only (`Load(s)` and the
+    /// operation after it, fused by [`fuse_pushes`]).
+    LoadAddConst(u32, f64),
+    LoadSubConst(u32, f64),
+    LoadMulConst(u32, f64),
+    LoadDivConst(u32, f64),
+    ConstSubLoad(f64, u32),
+    ConstDivLoad(f64, u32),
+    LoadAddLoad(u32, u32),
+    LoadSubLoad(u32, u32),
+    LoadMulLoad(u32, u32),
+    LoadDivLoad(u32, u32),
+    LoadPowInt(u32, i32),
+    LoadSqrt(u32),
+    LoadCall1(u32, Func),
     /// Keep the top in stack cell i (a cell past the operand stack) for a later `Fetch`.
     Store(u32),
     /// Push the value kept in stack cell i.
@@ -87,7 +208,22 @@ impl Op {
     /// How many operands the operation takes from the stack (the top included).
     fn operands(self) -> usize {
         match self {
-            Op::Load(_) | Op::Const(_) | Op::Fetch(_) => 0,
+            Op::Load(_)
+            | Op::Const(_)
+            | Op::Fetch(_)
+            | Op::LoadAddConst(..)
+            | Op::LoadSubConst(..)
+            | Op::LoadMulConst(..)
+            | Op::LoadDivConst(..)
+            | Op::ConstSubLoad(..)
+            | Op::ConstDivLoad(..)
+            | Op::LoadAddLoad(..)
+            | Op::LoadSubLoad(..)
+            | Op::LoadMulLoad(..)
+            | Op::LoadDivLoad(..)
+            | Op::LoadPowInt(..)
+            | Op::LoadSqrt(_)
+            | Op::LoadCall1(..) => 0,
             Op::Add | Op::Sub | Op::Mul | Op::Div | Op::Rem | Op::Pow | Op::Call2(_) => 2,
             Op::Call3(_) => 3,
             Op::CallN(_, n) => n as usize,
@@ -132,7 +268,8 @@ impl CompileError {
 }
 
 /// A compiled expression. Evaluate it with [`Program::eval_with`] (no allocation) or
-/// [`Program::eval`] (allocates a stack; for one-off use).
+/// [`Program::eval`] (allocates a stack; for one-off use), or with any [`Number`]
+/// through [`Program::run`].
 #[derive(Debug, Clone)]
 pub struct Program {
     ops: Vec<Op>,
@@ -182,7 +319,7 @@ impl Program {
                     if !f.arity.accepts(*n) {
                         return Err(CompileError::Malformed("argument count"));
                     }
-                    b.call(f.implementation, *n)?
+                    b.call(f.func, *n)?
                 }
                 _ => return Err(CompileError::Malformed("unexpected token")),
             }
@@ -194,6 +331,8 @@ impl Program {
             Ok(shared) => shared,
             Err(ops) => (ops, b.max_depth, 0),
         };
+        // A push form needs no more stack than the pair it replaces.
+        let ops = fuse_pushes(ops);
         Ok(Program {
             ops,
             depth,
@@ -229,6 +368,21 @@ impl Program {
         self.ops.is_empty()
     }
 
+    /// Whether the program raises to a power by multiplication
+    /// ([`functions::power`]), where meval would call `powf`.
+    pub fn has_multiplied_powers(&self) -> bool {
+        self.ops.iter().any(|op| match *op {
+            Op::PowInt(_)
+            | Op::LoadPowInt(..)
+            | Op::Pow
+            | Op::PowLoad(_)
+            | Op::ConstPow(_)
+            | Op::LoadPow(_) => true,
+            Op::PowConst(c) => c == 0.5 || functions::multiplied_exponent(c).is_some(),
+            _ => false,
+        })
+    }
+
     /// Evaluates with a fresh stack.
     pub fn eval(&self, slots: &[f64]) -> f64 {
         let mut stack = vec![0.0; self.stack_size()];
@@ -238,101 +392,133 @@ impl Program {
     /// Evaluates with `slots` and a stack of at least [`Program::stack_size`]; NaN if
     /// either is too short (never panics).
     #[inline]
-    // Each operation is written `left ⊕ right` in meval's operand order, on purpose.
-    #[allow(clippy::assign_op_pattern)]
     pub fn eval_with(&self, slots: &[f64], stack: &mut [f64]) -> f64 {
+        self.run(slots, stack)
+    }
+
+    /// Evaluates with any kind of [`Number`]: `slots` and a stack of at least
+    /// [`Program::stack_size`]; [`Number::undefined`] if either is too short (never
+    /// panics).
+    #[inline]
+    pub fn run<N: Number>(&self, slots: &[N], stack: &mut [N]) -> N {
         if slots.len() < self.slots || stack.len() < self.stack_size() || self.ops.is_empty() {
-            return f64::NAN;
+            return N::undefined();
         }
         // `sp` counts the values below the top; `acc` is the top.
-        let mut acc = 0.0;
+        let mut acc = N::constant(0.0);
         let mut sp = 0usize;
+        // Pushes the top and makes `$v` (which does not read the top) the new top.
+        macro_rules! push {
+            ($v:expr) => {{
+                let v = $v;
+                stack[sp] = acc;
+                sp += 1;
+                acc = v;
+            }};
+        }
         for op in &self.ops {
             match *op {
-                Op::Load(s) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = slots[s as usize];
-                }
-                Op::Const(v) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = v;
-                }
-                Op::Neg => acc = -acc,
+                Op::Load(s) => push!(slots[s as usize]),
+                Op::Const(v) => push!(N::constant(v)),
+                Op::Neg => acc = acc.neg(),
                 Op::Add => {
                     sp -= 1;
-                    acc = stack[sp] + acc;
+                    acc = stack[sp].add(acc);
                 }
-                Op::AddConst(c) => acc = acc + c,
-                Op::AddLoad(s) => acc = acc + slots[s as usize],
-                Op::ConstAdd(c) => acc = c + acc,
-                Op::LoadAdd(s) => acc = slots[s as usize] + acc,
+                Op::AddConst(c) => acc = acc.add(N::constant(c)),
+                Op::AddLoad(s) => acc = acc.add(slots[s as usize]),
+                Op::ConstAdd(c) => acc = N::constant(c).add(acc),
+                Op::LoadAdd(s) => acc = slots[s as usize].add(acc),
                 Op::Sub => {
                     sp -= 1;
-                    acc = stack[sp] - acc;
+                    acc = stack[sp].sub(acc);
                 }
-                Op::SubConst(c) => acc = acc - c,
-                Op::SubLoad(s) => acc = acc - slots[s as usize],
-                Op::ConstSub(c) => acc = c - acc,
-                Op::LoadSub(s) => acc = slots[s as usize] - acc,
+                Op::SubConst(c) => acc = acc.sub(N::constant(c)),
+                Op::SubLoad(s) => acc = acc.sub(slots[s as usize]),
+                Op::ConstSub(c) => acc = N::constant(c).sub(acc),
+                Op::LoadSub(s) => acc = slots[s as usize].sub(acc),
                 Op::Mul => {
                     sp -= 1;
-                    acc = stack[sp] * acc;
+                    acc = stack[sp].mul(acc);
                 }
-                Op::MulConst(c) => acc = acc * c,
-                Op::MulLoad(s) => acc = acc * slots[s as usize],
-                Op::ConstMul(c) => acc = c * acc,
-                Op::LoadMul(s) => acc = slots[s as usize] * acc,
+                Op::MulConst(c) => acc = acc.mul(N::constant(c)),
+                Op::MulLoad(s) => acc = acc.mul(slots[s as usize]),
+                Op::ConstMul(c) => acc = N::constant(c).mul(acc),
+                Op::LoadMul(s) => acc = slots[s as usize].mul(acc),
                 Op::Div => {
                     sp -= 1;
-                    acc = stack[sp] / acc;
+                    acc = stack[sp].div(acc);
                 }
-                Op::DivConst(c) => acc = acc / c,
-                Op::DivLoad(s) => acc = acc / slots[s as usize],
-                Op::ConstDiv(c) => acc = c / acc,
-                Op::LoadDiv(s) => acc = slots[s as usize] / acc,
+                Op::DivConst(c) => acc = acc.div(N::constant(c)),
+                Op::DivLoad(s) => acc = acc.div(slots[s as usize]),
+                Op::ConstDiv(c) => acc = N::constant(c).div(acc),
+                Op::LoadDiv(s) => acc = slots[s as usize].div(acc),
                 Op::Rem => {
                     sp -= 1;
-                    acc = stack[sp] % acc;
+                    acc = stack[sp].rem(acc);
                 }
-                Op::RemConst(c) => acc = acc % c,
-                Op::RemLoad(s) => acc = acc % slots[s as usize],
-                Op::ConstRem(c) => acc = c % acc,
-                Op::LoadRem(s) => acc = slots[s as usize] % acc,
+                Op::RemConst(c) => acc = acc.rem(N::constant(c)),
+                Op::RemLoad(s) => acc = acc.rem(slots[s as usize]),
+                Op::ConstRem(c) => acc = N::constant(c).rem(acc),
+                Op::LoadRem(s) => acc = slots[s as usize].rem(acc),
                 Op::Pow => {
                     sp -= 1;
-                    acc = stack[sp].powf(acc);
+                    acc = stack[sp].pow(acc);
                 }
-                Op::PowConst(c) => acc = acc.powf(c),
-                Op::PowLoad(s) => acc = acc.powf(slots[s as usize]),
-                Op::ConstPow(c) => acc = c.powf(acc),
-                Op::LoadPow(s) => acc = slots[s as usize].powf(acc),
-                Op::Call1(f) => acc = f(acc),
+                Op::PowConst(c) => acc = acc.pow(N::constant(c)),
+                Op::PowLoad(s) => acc = acc.pow(slots[s as usize]),
+                Op::ConstPow(c) => acc = N::constant(c).pow(acc),
+                Op::LoadPow(s) => acc = slots[s as usize].pow(acc),
+                Op::PowInt(n) => acc = acc.powi(n),
+                Op::Sqrt => acc = acc.call1(Func::Sqrt),
+                Op::Call1(f) => acc = acc.call1(f),
                 Op::Call2(f) => {
                     sp -= 1;
-                    acc = f(stack[sp], acc);
+                    acc = N::call2(f, stack[sp], acc);
                 }
                 Op::Call3(f) => {
                     sp -= 2;
-                    acc = f(stack[sp], stack[sp + 1], acc);
+                    acc = N::call3(f, stack[sp], stack[sp + 1], acc);
                 }
                 Op::CallN(f, n) => {
                     let n = n as usize;
                     stack[sp] = acc;
-                    acc = f(&stack[sp + 1 - n..=sp]);
+                    acc = N::call_n(f, &stack[sp + 1 - n..=sp]);
                     sp -= n - 1;
                 }
+                Op::LoadAddConst(s, c) => push!(slots[s as usize].add(N::constant(c))),
+                Op::LoadSubConst(s, c) => push!(slots[s as usize].sub(N::constant(c))),
+                Op::LoadMulConst(s, c) => push!(slots[s as usize].mul(N::constant(c))),
+                Op::LoadDivConst(s, c) => push!(slots[s as usize].div(N::constant(c))),
+                Op::ConstSubLoad(c, s) => push!(N::constant(c).sub(slots[s as usize])),
+                Op::ConstDivLoad(c, s) => push!(N::constant(c).div(slots[s as usize])),
+                Op::LoadAddLoad(s, t) => push!(slots[s as usize].add(slots[t as usize])),
+                Op::LoadSubLoad(s, t) => push!(slots[s as usize].sub(slots[t as usize])),
+                Op::LoadMulLoad(s, t) => push!(slots[s as usize].mul(slots[t as usize])),
+                Op::LoadDivLoad(s, t) => push!(slots[s as usize].div(slots[t as usize])),
+                Op::LoadPowInt(s, n) => push!(slots[s as usize].powi(n)),
+                Op::LoadSqrt(s) => push!(slots[s as usize].call1(Func::Sqrt)),
+                Op::LoadCall1(s, f) => push!(slots[s as usize].call1(f)),
                 Op::Store(i) => stack[i as usize] = acc,
-                Op::Fetch(i) => {
-                    stack[sp] = acc;
-                    sp += 1;
-                    acc = stack[i as usize];
-                }
+                Op::Fetch(i) => push!(stack[i as usize]),
             }
         }
         acc
     }
+}
+
+/// `npv(rate, c0, …, cn)` for any [`Number`], by the same steps as the point value
+/// (Horner's rule from the last cash flow: `acc / (1 + rate) + c`).
+pub(crate) fn npv<N: Number>(args: &[N]) -> N {
+    let Some((&rate, flows)) = args.split_first() else {
+        return N::undefined();
+    };
+    let g = N::constant(1.0).add(rate);
+    let mut acc = N::constant(0.0);
+    for &c in flows.iter().rev() {
+        acc = acc.div(g).add(c);
+    }
+    acc
 }
 
 struct Builder {
@@ -350,7 +536,7 @@ fn apply(op: Operation, left: f64, right: f64) -> f64 {
         Operation::Times => left * right,
         Operation::Div => left / right,
         Operation::Rem => left % right,
-        Operation::Pow => left.powf(right),
+        Operation::Pow => functions::power(left, right),
     }
 }
 
@@ -366,7 +552,10 @@ fn fuse_right(op: Operation, operand: Op) -> Option<Op> {
         (Operation::Div, Op::Load(s)) => Some(Op::DivLoad(s)),
         (Operation::Rem, Op::Const(c)) => Some(Op::RemConst(c)),
         (Operation::Rem, Op::Load(s)) => Some(Op::RemLoad(s)),
-        (Operation::Pow, Op::Const(c)) => Some(Op::PowConst(c)),
+        (Operation::Pow, Op::Const(c)) => Some(match functions::multiplied_exponent(c) {
+            Some(n) => Op::PowInt(n),
+            None => Op::PowConst(c),
+        }),
         (Operation::Pow, Op::Load(s)) => Some(Op::PowLoad(s)),
         _ => None,
     }
@@ -432,6 +621,11 @@ impl Builder {
         let end = self.ops.len();
         // A right operand of one operation: fuse it (acc ⊕ c).
         if end == right + 1 {
+            // x^1 is x exactly (IEEE pow), for every x.
+            if op == Operation::Pow && matches!(self.ops[right], Op::Const(c) if c == 1.0) {
+                self.ops.pop();
+                return Ok(());
+            }
             if let Some(f) = fuse_right(op, self.ops[right]) {
                 self.ops[right] = f;
                 return Ok(());
@@ -475,23 +669,24 @@ impl Builder {
         Ok(())
     }
 
-    fn call(&mut self, imp: Implementation, n: usize) -> Result<(), CompileError> {
+    fn call(&mut self, func: Func, n: usize) -> Result<(), CompileError> {
         if n == 0 {
             return Err(CompileError::Malformed("call without arguments"));
         }
         self.need(n)?;
         if let Some(v) = self.constant_tail(n) {
-            self.replace_top(n, Op::Const(imp.call(&v)));
+            self.replace_top(n, Op::Const(func.call(&v)));
             return Ok(());
         }
-        let op = match (imp, n) {
-            (Implementation::One(f), 1) => Op::Call1(f),
-            (Implementation::Two(f), 2) => Op::Call2(f),
-            (Implementation::Three(f), 3) => Op::Call3(f),
-            (Implementation::Many(f), n) => Op::CallN(
-                f,
+        let op = match (func, n) {
+            (Func::Min | Func::Max | Func::Npv, n) => Op::CallN(
+                func,
                 u32::try_from(n).map_err(|_| CompileError::Malformed("arity"))?,
             ),
+            (Func::Sqrt, 1) => Op::Sqrt,
+            (_, 1) => Op::Call1(func),
+            (_, 2) => Op::Call2(func),
+            (_, 3) => Op::Call3(func),
             _ => return Err(CompileError::Malformed("argument count")),
         };
         self.ops.push(op);
@@ -584,4 +779,47 @@ fn share_common(ops: Vec<Op>) -> Result<(Vec<Op>, usize, usize), Vec<Op>> {
         }
     }
     Ok((out, max_depth, kept as usize))
+}
+
+/// Fuses a push of a slot or a constant with the operation on it that follows
+/// (`Load(s), MulConst(c)` becomes `LoadMulConst(s, c)`): one dispatch instead of two,
+/// the same operation on the same operands. `c + x` and `c * x` become `x + c` and
+/// `x * c`: IEEE addition and multiplication are commutative, bit for bit. (A push
+/// followed by a left-fused form such as `ConstSub` does not occur: the builder fuses a
+/// one-operation right operand first.)
+fn fuse_pushes(ops: Vec<Op>) -> Vec<Op> {
+    let mut out: Vec<Op> = Vec::with_capacity(ops.len());
+    let mut i = 0;
+    while i < ops.len() {
+        let next = ops.get(i + 1).copied();
+        let fused = match (ops[i], next) {
+            (Op::Load(s), Some(Op::AddConst(c))) => Some(Op::LoadAddConst(s, c)),
+            (Op::Load(s), Some(Op::SubConst(c))) => Some(Op::LoadSubConst(s, c)),
+            (Op::Load(s), Some(Op::MulConst(c))) => Some(Op::LoadMulConst(s, c)),
+            (Op::Load(s), Some(Op::DivConst(c))) => Some(Op::LoadDivConst(s, c)),
+            (Op::Load(s), Some(Op::AddLoad(t))) => Some(Op::LoadAddLoad(s, t)),
+            (Op::Load(s), Some(Op::SubLoad(t))) => Some(Op::LoadSubLoad(s, t)),
+            (Op::Load(s), Some(Op::MulLoad(t))) => Some(Op::LoadMulLoad(s, t)),
+            (Op::Load(s), Some(Op::DivLoad(t))) => Some(Op::LoadDivLoad(s, t)),
+            (Op::Load(s), Some(Op::PowInt(n))) => Some(Op::LoadPowInt(s, n)),
+            (Op::Load(s), Some(Op::Sqrt)) => Some(Op::LoadSqrt(s)),
+            (Op::Load(s), Some(Op::Call1(f))) => Some(Op::LoadCall1(s, f)),
+            (Op::Const(c), Some(Op::AddLoad(s))) => Some(Op::LoadAddConst(s, c)),
+            (Op::Const(c), Some(Op::MulLoad(s))) => Some(Op::LoadMulConst(s, c)),
+            (Op::Const(c), Some(Op::SubLoad(s))) => Some(Op::ConstSubLoad(c, s)),
+            (Op::Const(c), Some(Op::DivLoad(s))) => Some(Op::ConstDivLoad(c, s)),
+            _ => None,
+        };
+        match fused {
+            Some(op) => {
+                out.push(op);
+                i += 2;
+            }
+            None => {
+                out.push(ops[i]);
+                i += 1;
+            }
+        }
+    }
+    out
 }

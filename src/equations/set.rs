@@ -4,7 +4,7 @@ use std::collections::{HashMap, HashSet};
 
 use super::functions;
 use super::parse::{self, Expression, Statement, StatementKind};
-use super::program::{Operand, Program};
+use super::program::{Number, Operand, Program};
 use crate::error::InputError;
 
 /// Equations and definitions read from text.
@@ -499,6 +499,26 @@ impl Block {
         }
         for (o, p) in out.iter_mut().zip(&self.eqs) {
             *o = p.eval_with(&self.slots, &mut self.stack);
+        }
+    }
+
+    /// The first residual with live values `live` of any [`Number`] kind; `slots` and
+    /// `stack` are scratch buffers (filled here, kept by the caller to reuse).
+    pub fn eval_first<N: Number>(&self, live: &[N], slots: &mut Vec<N>, stack: &mut Vec<N>) -> N {
+        slots.clear();
+        slots.extend(self.slots.iter().map(|&v| N::constant(v)));
+        stack.clear();
+        stack.resize(self.stack.len(), N::constant(0.0));
+        for (&s, &v) in self.live.iter().zip(live) {
+            slots[s] = v;
+        }
+        for (s, p) in &self.defs {
+            let v = p.run(slots, stack);
+            slots[*s] = v;
+        }
+        match self.eqs.first() {
+            Some(p) => p.run(slots, stack),
+            None => N::undefined(),
         }
     }
 
