@@ -14,6 +14,8 @@ mod candidates;
 mod chandrupatla;
 #[path = "../tests/fixtures/engineering.rs"]
 mod engineering;
+#[path = "../tests/fixtures/interpolation_traps.rs"]
+mod interpolation_traps;
 
 use std::cell::Cell;
 use std::collections::HashMap;
@@ -35,8 +37,11 @@ const PUBLISHED_BRENT_PER_FORMULA: f64 = 216.0;
 
 type Build = fn(f64, f64) -> Box<dyn ScalarMethod>;
 
-const CANDIDATES: [(&str, Build); 7] = [
+const CANDIDATES: [(&str, Build); 8] = [
     ("hybrid (default)", |a, b| Box::new(Hybrid::new(a, b))),
+    ("hybrid before bound", |a, b| {
+        Box::new(PreviousHybrid::new(a, b))
+    }),
     ("TOMS 748", |a, b| Box::new(Toms748::new(a, b).published())),
     ("TOMS 748 + split/zero", |a, b| Box::new(Toms748::new(a, b))),
     ("Brent-Dekker", |a, b| Box::new(Brent::new(a, b))),
@@ -426,8 +431,62 @@ fn side_by_side() {
     println!();
 }
 
+/// The bound on the traps built to defeat interpolation: the hybrid's evaluations
+/// against bisection's on the same function, under the benchmark's stopping rule.
+fn traps_against_bisection() {
+    let mut worst_excess = (i64::MIN, String::new());
+    let mut worst_ratio = (0.0f64, String::new());
+    let (mut ours_total, mut bisection_total, mut runs) = (0usize, 0usize, 0usize);
+    for trap in interpolation_traps::TRAPS.iter() {
+        for &(a, b) in interpolation_traps::BRACKETS.iter() {
+            for &at in interpolation_traps::ROOT_AT.iter() {
+                let r = a + at * (b - a);
+                let f = |x: f64| trap.eval(x, r);
+                let ours = drive(&mut Hybrid::new(a, b), same_rule(), f).xs.len();
+                let halving = drive(&mut Bisection::new(a, b), same_rule(), f).xs.len();
+                let what = format!(
+                    "{} on [{a}, {b}], root {r}: {ours} against {halving}",
+                    trap.name
+                );
+                let excess = ours as i64 - halving as i64;
+                if excess > worst_excess.0 {
+                    worst_excess = (excess, what.clone());
+                }
+                let ratio = ours as f64 / halving as f64;
+                if ratio > worst_ratio.0 {
+                    worst_ratio = (ratio, what);
+                }
+                ours_total += ours;
+                bisection_total += halving;
+                runs += 1;
+            }
+        }
+    }
+    println!(
+        "Functions built to defeat interpolation (tests/fixtures/interpolation_traps.rs): \
+         {} traps x {} brackets x {} roots = {runs} runs at the same stopping rule",
+        interpolation_traps::TRAPS.len(),
+        interpolation_traps::BRACKETS.len(),
+        interpolation_traps::ROOT_AT.len()
+    );
+    println!(
+        "hybrid {ours_total} evaluations, bisection {bisection_total}; bound: bisection + {}",
+        tacit::methods::hybrid::SLACK + 1
+    );
+    println!(
+        "worst excess over bisection: {} ({})",
+        worst_excess.0, worst_excess.1
+    );
+    println!(
+        "worst ratio to bisection: {:.3} ({})",
+        worst_ratio.0, worst_ratio.1
+    );
+    println!();
+}
+
 fn main() {
     side_by_side();
+    traps_against_bisection();
     let tol = Tolerances {
         x_abs: 0.0,
         x_rel: 4.0 * f64::EPSILON,

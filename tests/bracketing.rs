@@ -11,6 +11,8 @@ mod aps748;
 mod candidates;
 #[path = "fixtures/chandrupatla.rs"]
 mod chandrupatla;
+#[path = "fixtures/engineering.rs"]
+mod engineering;
 #[path = "fixtures/interpolation_traps.rs"]
 mod interpolation_traps;
 
@@ -184,6 +186,42 @@ fn every_bracketing_method_solves_every_chandrupatla_case() {
                 |x| c.f(x),
             );
             check(&label, method.code(), Seen::of(&s), c.root, tol, |x| c.f(x));
+        }
+    }
+}
+
+#[test]
+fn every_bracketing_method_solves_every_engineering_case() {
+    // Reference roots: mpmath, 60 digits (tests/reference/engineering_roots.py, versions
+    // in the fixture's header). Each root must lie within the final bracket's allowed
+    // width of the reference, plus the case's rounding band (where f in double
+    // precision has no reliable sign) and two units in the last place.
+    let tol = Tolerances {
+        x_abs: 2.0 * f64::MIN_POSITIVE,
+        x_rel: 2.0 * f64::EPSILON,
+        f_abs: 0.0,
+        max_evals: 10_000,
+    };
+    assert!(engineering::ENGINEERING_CASES.len() >= 50);
+    for method in BRACKETING {
+        for c in engineering::ENGINEERING_CASES.iter() {
+            let (s, _) = counted(
+                method,
+                Start::Bracket(c.a, c.b),
+                tol,
+                Bounds::UNBOUNDED,
+                |x| c.f(x),
+            );
+            assert!(s.converged, "{} {}: {:?}", c.name, method.code(), s.status);
+            let allowed = 6.0 * f64::EPSILON * c.root.abs() + 4.0 * f64::MIN_POSITIVE + c.band;
+            assert!(
+                (s.root - c.root).abs() <= allowed,
+                "{} {}: root {} against {}",
+                c.name,
+                method.code(),
+                s.root,
+                c.root
+            );
         }
     }
 }

@@ -83,6 +83,8 @@ HEADER = """//! The engineering problem set of the bracketing benchmark: @COUNT@
 
 #![allow(dead_code)]
 #![allow(clippy::excessive_precision)]
+// Reference roots such as sqrt 2 and pi/6 are mpmath's values, printed as numbers.
+#![allow(clippy::approx_constant)]
 
 use std::f64::consts::PI;
 
@@ -361,6 +363,10 @@ pub const APS_BANDS: [f64; 154] = [
 
 
 def rust_float(v):
+    if float(v) == math.pi:
+        return "PI"
+    if float(v) == 2 * math.pi:
+        return "2.0 * PI"
     s = repr(float(v))
     if s in ("inf", "-inf", "nan"):
         raise ValueError(v)
