@@ -65,28 +65,26 @@ def run_find_root(fam, p, a, b):
     return c.count, float(res.x), bool(res.success)
 
 
-def run_brentq(fam, p, a, b):
-    c = Counted(fam, p)
-    try:
-        x, r = brentq(c.scalar, a, b, xtol=XTOL, rtol=RTOL, maxiter=10_000, full_output=True, disp=False)
-        return c.count, float(x), bool(r.converged)
-    except (ValueError, RuntimeError):
-        return c.count, float("nan"), False
+def run_classic(solver):
+    """brentq or toms748 (scalar calls, full output) as a runner."""
 
+    def run(fam, p, a, b):
+        c = Counted(fam, p)
+        try:
+            x, r = solver(
+                c.scalar, a, b, xtol=XTOL, rtol=RTOL, maxiter=10_000, full_output=True, disp=False
+            )
+            return c.count, float(x), bool(r.converged)
+        except (ValueError, RuntimeError):
+            return c.count, float("nan"), False
 
-def run_toms748(fam, p, a, b):
-    c = Counted(fam, p)
-    try:
-        x, r = toms748(c.scalar, a, b, xtol=XTOL, rtol=RTOL, maxiter=10_000, full_output=True, disp=False)
-        return c.count, float(x), bool(r.converged)
-    except (ValueError, RuntimeError):
-        return c.count, float("nan"), False
+    return run
 
 
 METHODS = [
     ("find_root", run_find_root),
-    ("brentq", run_brentq),
-    ("toms748", run_toms748),
+    ("brentq", run_classic(brentq)),
+    ("toms748", run_classic(toms748)),
 ]
 
 
