@@ -15,7 +15,9 @@ use crate::tolerances::{Bounds, Tolerances};
 const FORMAT: &str = "tacit-stepper";
 /// Version 2: claims of convergence are checked by the driver, which may ask for
 /// checking points, and the methods treat infinite values and NaN gaps differently.
-const VERSION: u64 = 2;
+/// Version 3: the bracketing hybrid (also inside `auto`) follows a schedule that bounds
+/// its evaluations and takes multiple-root steps, so it asks for other points.
+const VERSION: u64 = 3;
 
 fn num(v: f64) -> Value {
     if v.is_nan() {

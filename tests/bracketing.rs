@@ -11,12 +11,16 @@ mod aps748;
 mod candidates;
 #[path = "fixtures/chandrupatla.rs"]
 mod chandrupatla;
+#[path = "fixtures/engineering.rs"]
+mod engineering;
+#[path = "fixtures/interpolation_traps.rs"]
+mod interpolation_traps;
 
 use std::cell::RefCell;
 
 use candidates::{drive, Brent, Chandrupatla, Toms748};
 use tacit::driver::ScalarMethod;
-use tacit::methods::hybrid::Hybrid;
+use tacit::methods::hybrid::{self, Hybrid};
 use tacit::methods::illinois::Illinois;
 use tacit::{
     solve, Bounds, CertificateKind, MethodKind, Options, Solution, Start, Status, Tolerances,
@@ -182,6 +186,42 @@ fn every_bracketing_method_solves_every_chandrupatla_case() {
                 |x| c.f(x),
             );
             check(&label, method.code(), Seen::of(&s), c.root, tol, |x| c.f(x));
+        }
+    }
+}
+
+#[test]
+fn every_bracketing_method_solves_every_engineering_case() {
+    // Reference roots: mpmath, 60 digits (tests/reference/engineering_roots.py, versions
+    // in the fixture's header). Each root must lie within the final bracket's allowed
+    // width of the reference, plus the case's rounding band (where f in double
+    // precision has no reliable sign) and two units in the last place.
+    let tol = Tolerances {
+        x_abs: 2.0 * f64::MIN_POSITIVE,
+        x_rel: 2.0 * f64::EPSILON,
+        f_abs: 0.0,
+        max_evals: 10_000,
+    };
+    assert!(engineering::ENGINEERING_CASES.len() >= 50);
+    for method in BRACKETING {
+        for c in engineering::ENGINEERING_CASES.iter() {
+            let (s, _) = counted(
+                method,
+                Start::Bracket(c.a, c.b),
+                tol,
+                Bounds::UNBOUNDED,
+                |x| c.f(x),
+            );
+            assert!(s.converged, "{} {}: {:?}", c.name, method.code(), s.status);
+            let allowed = 6.0 * f64::EPSILON * c.root.abs() + 4.0 * f64::MIN_POSITIVE + c.band;
+            assert!(
+                (s.root - c.root).abs() <= allowed,
+                "{} {}: root {} against {}",
+                c.name,
+                method.code(),
+                s.root,
+                c.root
+            );
         }
     }
 }
@@ -558,4 +598,76 @@ fn interpolating_methods_need_far_fewer_evaluations_than_bisection() {
         2 * illinois < bisection,
         "Illinois {illinois} against bisection {bisection}"
     );
+}
+
+/// The tolerances the bound is checked at: the benchmark's (final bracket within
+/// 4 eps |x| + 4 tiny), the default relative one, and an absolute one.
+fn bound_tolerances() -> [Tolerances; 3] {
+    let base = Tolerances {
+        max_evals: 100_000,
+        ..Tolerances::default()
+    };
+    [
+        Tolerances {
+            x_abs: 2.0 * f64::MIN_POSITIVE,
+            x_rel: 2.0 * f64::EPSILON,
+            f_abs: 0.0,
+            ..base
+        },
+        base,
+        Tolerances {
+            x_abs: 1e-9,
+            x_rel: 0.0,
+            ..base
+        },
+    ]
+}
+
+#[test]
+fn hybrid_never_needs_more_than_bisection_plus_the_slack() {
+    // The bound proved in `src/methods/hybrid.rs`: at most bisection's count plus
+    // SLACK + 1 on any function with one sign change, checked on functions built to
+    // defeat interpolation (`fixtures/interpolation_traps.rs`) at 36 roots each and
+    // three tolerances, counted through a counting wrapper.
+    let mut worst = (0i64, String::new());
+    let mut runs = 0;
+    for trap in interpolation_traps::TRAPS.iter() {
+        for &(a, b) in interpolation_traps::BRACKETS.iter() {
+            for &at in interpolation_traps::ROOT_AT.iter() {
+                let r = a + at * (b - a);
+                for tol in bound_tolerances() {
+                    let f = |x: f64| trap.eval(x, r);
+                    let (h, hx) = counted(
+                        MethodKind::Hybrid,
+                        Start::Bracket(a, b),
+                        tol,
+                        Bounds::UNBOUNDED,
+                        f,
+                    );
+                    let mut bis = tacit::methods::bisection::Bisection::new(a, b);
+                    let bisection = drive(&mut bis, tol, f).xs.len();
+                    // The hybrid's own evaluations, without the driver's checks.
+                    let own = hx.len() - h.checks;
+                    let excess = own as i64 - bisection as i64;
+                    runs += 1;
+                    if excess > worst.0 {
+                        worst = (
+                            excess,
+                            format!(
+                                "{} on [{a}, {b}], r = {r}: {own} against {bisection}",
+                                trap.name
+                            ),
+                        );
+                    }
+                    assert!(
+                        excess <= hybrid::SLACK as i64 + 1,
+                        "{} on [{a}, {b}], r = {r}, {tol:?}: hybrid {own}, bisection {bisection}",
+                        trap.name
+                    );
+                }
+            }
+        }
+    }
+    assert!(runs > 1000);
+    println!("worst excess over bisection: {} ({})", worst.0, worst.1);
 }

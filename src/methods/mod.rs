@@ -23,7 +23,8 @@ pub enum MethodKind {
     Auto,
     /// The classic secant method, exactly as in the textbooks.
     Secant,
-    /// The bracketing hybrid that cannot diverge; needs a sign change.
+    /// The bracketing hybrid that cannot diverge and never needs more than bisection's
+    /// count plus [`hybrid::SLACK`] + 1 evaluations; needs a sign change.
     Hybrid,
     Bisection,
     /// Illinois false position.
