@@ -1149,8 +1149,9 @@ pub fn catalogue() -> String {
     text_of(camel_keys(value))
 }
 
-const TEMPLATE_FIELDS: [&str; 10] = [
+const TEMPLATE_FIELDS: [&str; 11] = [
     "id",
+    "useScenarioDefaults",
     "branch",
     "values",
     "unknown",
@@ -1341,6 +1342,7 @@ pub fn template_request(request: &str) -> Result<TemplateRequest, InputError> {
             Some(b) => Some(short_name(b, "request.branch")?.to_string()),
             None => None,
         },
+        use_scenario_defaults: f.boolean("useScenarioDefaults")?,
     })
 }
 

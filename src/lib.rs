@@ -21,6 +21,7 @@ pub mod equations;
 pub mod error;
 pub mod methods;
 pub mod outcome;
+pub mod problem;
 pub mod proven_roots;
 pub mod roots_in_range;
 pub mod stepper;

@@ -356,10 +356,13 @@ pub struct TemplateRequest {
     /// The branch wanted, by its label (`subsonic`, `liquid-like`); the template's
     /// default branch when `None`.
     pub branch: Option<String>,
+    /// Take the demo scenario's value for every known not given (off: a missing known
+    /// is an error naming it).
+    pub use_scenario_defaults: bool,
 }
 
 impl TemplateRequest {
-    /// A request with every value at its default.
+    /// A request with every value at the demo scenario's default.
     pub fn new(id: &str, unknown: &str) -> TemplateRequest {
         TemplateRequest {
             id: id.to_string(),
@@ -370,6 +373,7 @@ impl TemplateRequest {
             options: Options::default(),
             sensitivities: false,
             branch: None,
+            use_scenario_defaults: true,
         }
     }
 }
@@ -569,6 +573,41 @@ fn guesses_within(g: (f64, f64), b: Bounds) -> (f64, f64) {
 
 /// Solves a template for one of its variables. See the module documentation.
 pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputError> {
+    let compiled = compile(req)?;
+    let settled = compiled.solve()?;
+    compiled.report(settled)
+}
+
+/// A template request checked and made ready to solve: the template and its unknown,
+/// every known in SI, the equations with the list expanded, the unknown's bounds and
+/// start in SI. Compiled once, it can be solved, evaluated and scanned many times.
+#[derive(Clone)]
+pub struct Compiled {
+    pub t: &'static Template,
+    pub unknown: &'static Variable,
+    pub req: TemplateRequest,
+    /// The unit of the answer.
+    pub unit: String,
+    text: String,
+    set: EquationSet,
+    /// Every known, in SI (list entries included).
+    knowns: Vec<(String, f64)>,
+    /// The knowns the equations use.
+    set_knowns: Vec<(String, f64)>,
+    /// The unknown's bounds in SI (its limits applied).
+    pub bounds: Bounds,
+    specs: Vec<UnknownSpec>,
+    start: StartingPoint,
+    /// Notes made while compiling (values outside the template's range, the unknown's
+    /// own value used as a guess).
+    notes: Vec<String>,
+}
+
+/// Checks a request and compiles it ([`Compiled`]). Every variable other than the
+/// unknown needs a value, unless `use_scenario_defaults` asks for the demo scenario's
+/// defaults; every missing one is named. A value given for the unknown itself is its
+/// first guess (said in the notes) unless guesses are given.
+pub fn compile(req: &TemplateRequest) -> Result<Compiled, InputError> {
     if let Some(err) = catalogue_error() {
         return Err(InputError::new("catalogue", err.to_string()));
     }
@@ -578,133 +617,20 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
             format!("no template has the id \"{}\"", req.id),
         )
     })?;
-    let unknown = t.variable(&req.unknown).ok_or_else(|| {
-        InputError::new(
-            "unknown-variable",
-            format!(
-                "template {} has no variable \"{}\"; its variables are {}",
-                t.id,
-                req.unknown,
-                t.variables
-                    .iter()
-                    .map(|v| v.symbol.as_str())
-                    .collect::<Vec<_>>()
-                    .join(", ")
-            ),
-        )
-    })?;
-    if !t.may_solve_for(&unknown.symbol) {
-        let reason = t.unknowns_reason.as_deref().unwrap_or("");
-        return Err(InputError::new(
-            "not-an-unknown",
-            format!(
-                "template {} cannot be solved for \"{}\"; choose one of {}. {reason}",
-                t.id,
-                unknown.symbol,
-                t.unknowns.join(", ")
-            ),
-        ));
-    }
-
-    // Knowns in SI: the request's values over the defaults.
-    let mut knowns: Vec<(String, f64)> = Vec::new();
-    let mut list_values: Vec<f64> = Vec::new();
-    let mut given: Vec<&str> = Vec::new();
-    let mut outside: Vec<String> = Vec::new();
-    for (symbol, value, unit) in &req.values {
-        let place = format!("value of {symbol} in template {}", t.id);
-        if !value.is_finite() {
-            return Err(InputError::new(
-                "non-finite-input",
-                format!("the {place} must be a finite number, got {value}"),
-            ));
-        }
-        if let Some(list) = t.list.as_ref().filter(|l| &l.symbol == symbol) {
-            list_values.push(units::to_si_in(*value, unit, &list.dimension)?);
-            continue;
-        }
-        let var = t.variable(symbol).ok_or_else(|| {
-            InputError::new(
-                "unknown-variable",
-                format!("template {} has no variable \"{symbol}\"", t.id),
-            )
-        })?;
-        if given.contains(&symbol.as_str()) {
-            return Err(InputError::new(
-                "duplicate-name",
-                format!("{symbol} is given more than once"),
-            ));
-        }
-        given.push(symbol);
-        if symbol == &unknown.symbol {
-            continue; // the unknown's own field: not used
-        }
-        let row = units::unit_in(unit, &var.dimension)?;
-        let accepted = var
-            .units
-            .iter()
-            .any(|u| units::unit_in(u, &var.dimension).is_ok_and(|r| r.symbol == row.symbol));
-        if !accepted {
-            return Err(InputError::new(
-                "unit-not-accepted",
-                format!(
-                    "{symbol} does not take the unit \"{unit}\"; it takes {}",
-                    var.units.join(", ")
-                ),
-            ));
-        }
-        let si = units::to_si_in(*value, unit, &var.dimension)?;
-        let b = var.bounds_si()?;
-        if !b.contains(si) {
-            outside.push(format!(
-                "{symbol} = {} is outside the range this template takes for {} ({} to {}); \
-                 the result may have no physical meaning.",
-                with_unit(*value, unit),
-                var.meaning,
-                sig(var.bounds[0]),
-                with_unit(var.bounds[1], &var.unit)
-            ));
-        }
-        knowns.push((symbol.clone(), si));
-    }
-    for var in &t.variables {
-        if var.symbol != unknown.symbol && !knowns.iter().any(|(s, _)| s == &var.symbol) {
-            knowns.push((var.symbol.clone(), var.default_si()?));
-        }
-    }
-    if let Some(list) = &t.list {
-        if list_values.is_empty() {
-            for &v in &list.values {
-                list_values.push(units::to_si_in(v, &list.unit, &list.dimension)?);
-            }
-        }
-        if list_values.len() < 2 {
-            return Err(InputError::new(
-                "short-list",
-                format!(
-                    "template {} needs at least two values of {} ({}), got {}",
-                    t.id,
-                    list.symbol,
-                    list.meaning,
-                    list_values.len()
-                ),
-            ));
-        }
-    }
-    let (text, list_knowns) = expand_list(t, &list_values);
-    knowns.extend(list_knowns);
-
-    let set = EquationSet::parse_declaring(&text, &t.declared_symbols())?;
-    let used = set.variables();
-    let names: Vec<&str> = knowns.iter().map(|(s, _)| s.as_str()).collect();
-    let values: Vec<f64> = knowns.iter().map(|(_, v)| *v).collect();
-
-    // The unknown and the auxiliaries, with bounds and guesses in SI.
+    let unknown = the_unknown(t, &req.unknown)?;
     let unit = req
         .result_unit
         .clone()
         .unwrap_or_else(|| unknown.unit.clone());
     units::unit_in(&unit, &unknown.dimension)?;
+    let given = read_knowns(t, unknown, req)?;
+    let (text, list_knowns) = expand_list(t, &given.list);
+    let mut knowns = given.knowns;
+    knowns.extend(list_knowns);
+    let set = EquationSet::parse_declaring(&text, &t.declared_symbols())?;
+    let used = set.variables();
+    let names: Vec<&str> = knowns.iter().map(|(s, _)| s.as_str()).collect();
+    let values: Vec<f64> = knowns.iter().map(|(_, v)| *v).collect();
     let place = format!("limits of {} in template {}", unknown.symbol, t.id);
     let bounds = limited(
         unknown.bounds_si()?,
@@ -714,7 +640,22 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
         &place,
     )?;
     check_requirements(t, &unknown.symbol, &names, &values)?;
-    let start = starting_point(t, unknown, req, &unit, bounds, &names, &values)?;
+    let mut request = req.clone();
+    let mut notes = given.notes;
+    if let (None, Some(own)) = (req.guesses, given.own_value) {
+        let own_si = units::to_si_in(own.0, &own.1, &unknown.dimension)?;
+        if bounds.contains(own_si) {
+            let g = units::from_si_in(own_si, &unit, &unknown.dimension)?;
+            let step = STARTER_STEP * g.abs().max(1e-300);
+            request.guesses = Some((g, g + step));
+            notes.push(format!(
+                "The value given for {} ({}) was used as the first guess.",
+                unknown.symbol,
+                with_unit(own.0, &own.1)
+            ));
+        }
+    }
+    let start = starting_point(t, unknown, &request, &unit, bounds, &names, &values)?;
     let mut specs = vec![UnknownSpec {
         name: unknown.symbol.clone(),
         guesses: Some(start.guesses),
@@ -735,148 +676,439 @@ pub fn solve_template(req: &TemplateRequest) -> Result<TemplateSolution, InputEr
             bounds: b,
         });
     }
-    let mut notes = outside;
     let set_knowns: Vec<(String, f64)> = knowns
         .iter()
         .filter(|(s, _)| used.iter().any(|u| u == s))
         .cloned()
         .collect();
-    let solution = solve_coupled(t, &set, &text, &set_knowns, &specs, req, &mut notes)?;
-    let cx = roots::Context {
+    Ok(Compiled {
         t,
         unknown,
-        req,
-        text: &text,
-        set: &set,
-        knowns: &set_knowns,
-        specs: &specs,
-        bounds,
-        names: &names,
-        values: &values,
-        unit: &unit,
-        own_start: req.guesses.is_none(),
-    };
-    let settled = roots::settle(&cx, solution, &mut notes)?;
-    let solution = settled.solution;
-    let root_si = solution.unknowns.first().map_or(f64::NAN, |u| u.1);
-    let value = units::from_si_in(root_si, &unit, &unknown.dimension)?;
-    let mut other_roots = Vec::new();
-    for r in &settled.others {
-        other_roots.push(OtherRoot {
-            value: units::from_si_in(r.x, &unit, &unknown.dimension)?,
-            label: r.label.clone(),
-        });
-    }
-    other_roots.sort_by(|a, b| a.value.total_cmp(&b.value));
-    if let (Some(s), true) = (&start.starter, solution.converged) {
-        notes.push(format!(
-            "Started from {}: {} = {} ({} from the implicit value {}).",
-            s.label,
-            unknown.symbol,
-            with_unit(
-                units::from_si_in(s.value, &unit, &unknown.dimension)?,
-                &unit
-            ),
-            percent(s.value, root_si),
-            with_unit(value, &unit)
-        ));
-    }
-    notes.extend(start.note);
-
-    // Values at the solution for comparisons, warnings and outputs.
-    let mut all_names: Vec<String> = knowns.iter().map(|(s, _)| s.clone()).collect();
-    let mut all_values: Vec<f64> = knowns.iter().map(|(_, v)| *v).collect();
-    for (s, v) in solution.unknowns.iter().chain(&solution.definitions) {
-        all_names.push(s.clone());
-        all_values.push(*v);
-    }
-    let refs: Vec<&str> = all_names.iter().map(String::as_str).collect();
-    let lookup = |s: &str| refs.iter().position(|n| *n == s).map(|i| all_values[i]);
-    let mut outputs = Vec::new();
-    let mut approximations = Vec::new();
-    if solution.converged {
-        for c in &t.comparisons {
-            let place = format!("comparison in template {}", t.id);
-            let approx = eval(&c.expr, &refs, &all_values, &place)?;
-            approximations.push(OutputValue {
-                symbol: c.symbol.clone(),
-                meaning: c.label.clone(),
-                value: approx,
-                unit: "1".to_string(),
-            });
-            if let Some(exact) = lookup(&c.against) {
-                let diff = 100.0 * (approx - exact) / exact;
-                notes.push(format!(
-                    "{}: {} = {} ({}{:.3} % from the implicit value {}).",
-                    c.label,
-                    c.against,
-                    sig(approx),
-                    if diff >= 0.0 { "+" } else { "" },
-                    diff,
-                    sig(exact)
-                ));
-            }
-        }
-        for w in &t.warnings {
-            let place = format!("warning in template {}", t.id);
-            if eval(&w.when, &refs, &all_values, &place)? > 0.0 {
-                notes.push(w.text.clone());
-            }
-        }
-        let shown = t
-            .auxiliary
-            .iter()
-            .map(|a| (&a.symbol, &a.meaning, &a.dimension, &a.unit))
-            .chain(
-                t.outputs
-                    .iter()
-                    .map(|o| (&o.symbol, &o.meaning, &o.dimension, &o.unit)),
-            );
-        for (symbol, meaning, dimension, unit) in shown {
-            if let Some(v) = lookup(symbol) {
-                outputs.push(OutputValue {
-                    symbol: symbol.clone(),
-                    meaning: meaning.clone(),
-                    value: units::from_si_in(v, unit, dimension)?,
-                    unit: unit.clone(),
-                });
-            }
-        }
-    } else {
-        notes.push(format!(
-            "Not converged ({}): {}",
-            solution.status.code(),
-            solution.status.diagnosis()
-        ));
-        // Warnings written in the knowns alone (a cable shorter than its span) may say
-        // why; those that need the unknown are not evaluated at a point that is no root.
-        let place = format!("warning in template {}", t.id);
-        for w in &t.warnings {
-            if eval(&w.when, &names, &values, &place).is_ok_and(|v| v > 0.0) {
-                notes.push(w.text.clone());
-            }
-        }
-    }
-    if let (Some(s), true) = (&start.starter, solution.converged) {
-        approximations.push(OutputValue {
-            symbol: format!("{}_start", unknown.symbol),
-            meaning: format!("{} (the starting point)", s.label),
-            value: units::from_si_in(s.value, &unit, &unknown.dimension)?,
-            unit: unit.clone(),
-        });
-    }
-    outputs.extend(approximations);
-    Ok(TemplateSolution {
-        solution,
-        value,
+        req: request,
         unit,
-        branch: settled.branch,
-        other_roots,
-        scan_evaluations: settled.scan_evaluations,
+        text,
+        set,
+        knowns,
+        set_knowns,
+        bounds,
+        specs,
+        start,
         notes,
-        caution: t.caution.clone(),
-        outputs,
     })
+}
+
+/// The variable of `t` named `symbol`, if the template may be solved for it.
+fn the_unknown(t: &'static Template, symbol: &str) -> Result<&'static Variable, InputError> {
+    let unknown = t.variable(symbol).ok_or_else(|| {
+        InputError::new(
+            "unknown-variable",
+            format!(
+                "template {} has no variable \"{symbol}\"; its variables are {}",
+                t.id,
+                t.variables
+                    .iter()
+                    .map(|v| v.symbol.as_str())
+                    .collect::<Vec<_>>()
+                    .join(", ")
+            ),
+        )
+    })?;
+    if !t.may_solve_for(&unknown.symbol) {
+        let reason = t.unknowns_reason.as_deref().unwrap_or("");
+        return Err(InputError::new(
+            "not-an-unknown",
+            format!(
+                "template {} cannot be solved for \"{}\"; choose one of {}. {reason}",
+                t.id,
+                unknown.symbol,
+                t.unknowns.join(", ")
+            ),
+        ));
+    }
+    Ok(unknown)
+}
+
+/// The knowns of a request, read and checked.
+struct Given {
+    /// (symbol, SI value) of every variable but the unknown.
+    knowns: Vec<(String, f64)>,
+    /// The list input in SI.
+    list: Vec<f64>,
+    /// The value given for the unknown itself, with its unit.
+    own_value: Option<(f64, String)>,
+    notes: Vec<String>,
+}
+
+fn read_knowns(
+    t: &'static Template,
+    unknown: &Variable,
+    req: &TemplateRequest,
+) -> Result<Given, InputError> {
+    let mut knowns: Vec<(String, f64)> = Vec::new();
+    let mut list: Vec<f64> = Vec::new();
+    let mut given: Vec<&str> = Vec::new();
+    let mut notes: Vec<String> = Vec::new();
+    let mut own_value = None;
+    for (symbol, value, unit) in &req.values {
+        let place = format!("value of {symbol} in template {}", t.id);
+        if !value.is_finite() {
+            return Err(InputError::new(
+                "non-finite-input",
+                format!("the {place} must be a finite number, got {value}"),
+            ));
+        }
+        if let Some(l) = t.list.as_ref().filter(|l| &l.symbol == symbol) {
+            list.push(units::to_si_in(*value, unit, &l.dimension)?);
+            continue;
+        }
+        let var = t.variable(symbol).ok_or_else(|| {
+            InputError::new(
+                "unknown-variable",
+                format!("template {} has no variable \"{symbol}\"", t.id),
+            )
+        })?;
+        if given.contains(&symbol.as_str()) {
+            return Err(InputError::new(
+                "duplicate-name",
+                format!("{symbol} is given more than once"),
+            ));
+        }
+        given.push(symbol);
+        let row = units::unit_in(unit, &var.dimension)?;
+        let accepted = var
+            .units
+            .iter()
+            .any(|u| units::unit_in(u, &var.dimension).is_ok_and(|r| r.symbol == row.symbol));
+        if !accepted {
+            return Err(InputError::new(
+                "unit-not-accepted",
+                format!(
+                    "{symbol} does not take the unit \"{unit}\"; it takes {}",
+                    var.units.join(", ")
+                ),
+            ));
+        }
+        if symbol == &unknown.symbol {
+            own_value = Some((*value, unit.clone()));
+            continue;
+        }
+        let si = units::to_si_in(*value, unit, &var.dimension)?;
+        let b = var.bounds_si()?;
+        if !b.contains(si) {
+            notes.push(format!(
+                "{symbol} = {} is outside the range this template takes for {} ({} to {}); \
+                 the result may have no physical meaning.",
+                with_unit(*value, unit),
+                var.meaning,
+                sig(var.bounds[0]),
+                with_unit(var.bounds[1], &var.unit)
+            ));
+        }
+        knowns.push((symbol.clone(), si));
+    }
+    let mut missing: Vec<&str> = Vec::new();
+    for var in &t.variables {
+        if var.symbol != unknown.symbol && !knowns.iter().any(|(s, _)| s == &var.symbol) {
+            if req.use_scenario_defaults {
+                knowns.push((var.symbol.clone(), var.default_si()?));
+            } else {
+                missing.push(&var.symbol);
+            }
+        }
+    }
+    if let Some(l) = &t.list {
+        if list.is_empty() {
+            if req.use_scenario_defaults {
+                for &v in &l.values {
+                    list.push(units::to_si_in(v, &l.unit, &l.dimension)?);
+                }
+            } else {
+                missing.push(&l.symbol);
+            }
+        }
+    }
+    if !missing.is_empty() {
+        return Err(InputError::new(
+            "missing-value",
+            format!(
+                "template {} solved for {} needs a value for {} ({}); give {}, or ask for \
+                 the demo scenario's values with useScenarioDefaults",
+                t.id,
+                unknown.symbol,
+                if missing.len() == 1 {
+                    "one more known"
+                } else {
+                    "every known"
+                },
+                missing.join(", "),
+                if missing.len() == 1 { "it" } else { "them" }
+            ),
+        ));
+    }
+    if let Some(l) = &t.list {
+        if list.len() < 2 {
+            return Err(InputError::new(
+                "short-list",
+                format!(
+                    "template {} needs at least two values of {} ({}), got {}",
+                    t.id,
+                    l.symbol,
+                    l.meaning,
+                    list.len()
+                ),
+            ));
+        }
+    }
+    Ok(Given {
+        knowns,
+        list,
+        own_value,
+        notes,
+    })
+}
+
+/// What [`Compiled::solve`] settled, before it is reported in the user's units.
+pub struct Outcome {
+    settled: roots::Settled,
+    notes: Vec<String>,
+}
+
+impl Outcome {
+    /// The solve, in SI.
+    pub fn solution(&self) -> &SetSolution {
+        &self.settled.solution
+    }
+}
+
+impl Compiled {
+    fn names(&self) -> Vec<&str> {
+        self.knowns.iter().map(|(s, _)| s.as_str()).collect()
+    }
+
+    fn values(&self) -> Vec<f64> {
+        self.knowns.iter().map(|(_, v)| *v).collect()
+    }
+
+    /// Every known in SI.
+    pub fn knowns(&self) -> &[(String, f64)] {
+        &self.knowns
+    }
+
+    /// The two starting guesses in SI.
+    pub fn start_guesses(&self) -> (f64, f64) {
+        self.start.guesses
+    }
+
+    /// The same problem with other solve options, and other guesses (in the result
+    /// unit) when given.
+    pub fn with_options(
+        &self,
+        options: Options,
+        sensitivities: bool,
+        guesses: Option<(f64, f64)>,
+    ) -> Result<Compiled, InputError> {
+        let mut c = self.clone();
+        c.req.options = options;
+        c.req.sensitivities = sensitivities;
+        if guesses.is_some() {
+            c.req.guesses = guesses;
+            let names = self.names();
+            let values = self.values();
+            c.start = starting_point(
+                self.t,
+                self.unknown,
+                &c.req,
+                &self.unit,
+                self.bounds,
+                &names,
+                &values,
+            )?;
+            c.specs[0].guesses = Some(c.start.guesses);
+        }
+        Ok(c)
+    }
+
+    /// Solves from the compiled start, then settles the branch and the other roots.
+    pub fn solve(&self) -> Result<Outcome, InputError> {
+        let mut notes = self.notes.clone();
+        let names = self.names();
+        let values = self.values();
+        let solution = solve_coupled(
+            self.t,
+            &self.set,
+            &self.text,
+            &self.set_knowns,
+            &self.specs,
+            &self.req,
+            &mut notes,
+        )?;
+        let cx = roots::Context {
+            t: self.t,
+            unknown: self.unknown,
+            req: &self.req,
+            text: &self.text,
+            set: &self.set,
+            knowns: &self.set_knowns,
+            specs: &self.specs,
+            bounds: self.bounds,
+            names: &names,
+            values: &values,
+            unit: &self.unit,
+            own_start: self.req.guesses.is_none(),
+        };
+        let settled = roots::settle(&cx, solution, &mut notes)?;
+        Ok(Outcome { settled, notes })
+    }
+
+    /// The residual of the main equation as a function of the unknown in SI, the
+    /// auxiliaries solved from their own equations at each value (NaN where they
+    /// cannot be).
+    pub fn residual(&self) -> Result<Box<dyn FnMut(f64) -> f64 + '_>, InputError> {
+        if self.t.auxiliary.is_empty() {
+            let r = self
+                .set
+                .residual_fn(&self.set_knowns, &self.unknown.symbol)?;
+            return Ok(Box::new(r));
+        }
+        let nested = roots::Nested::new(self.t, &self.text)?;
+        Ok(Box::new(move |x| {
+            nested.at(x, &self.set_knowns, &self.specs, &self.req.options)
+        }))
+    }
+
+    /// The branch labels of roots at `xs` (SI, sorted), where the template names them.
+    pub fn label_roots(&self, xs: &[f64]) -> Vec<Option<String>> {
+        match &self.unknown.roots {
+            Some(scan) => roots::label_roots(scan, xs),
+            None => vec![None; xs.len()],
+        }
+    }
+
+    /// The result with the unknown, its other roots and the outputs in their units.
+    pub fn report(&self, outcome: Outcome) -> Result<TemplateSolution, InputError> {
+        let Outcome { settled, mut notes } = outcome;
+        let (t, unknown, unit) = (self.t, self.unknown, self.unit.as_str());
+        let solution = settled.solution;
+        let root_si = solution.unknowns.first().map_or(f64::NAN, |u| u.1);
+        let value = units::from_si_in(root_si, unit, &unknown.dimension)?;
+        let mut other_roots = Vec::new();
+        for r in &settled.others {
+            other_roots.push(OtherRoot {
+                value: units::from_si_in(r.x, unit, &unknown.dimension)?,
+                label: r.label.clone(),
+            });
+        }
+        other_roots.sort_by(|a, b| a.value.total_cmp(&b.value));
+        let start = &self.start;
+        if let (Some(s), true) = (&start.starter, solution.converged) {
+            notes.push(format!(
+                "Started from {}: {} = {} ({} from the implicit value {}).",
+                s.label,
+                unknown.symbol,
+                with_unit(units::from_si_in(s.value, unit, &unknown.dimension)?, unit),
+                percent(s.value, root_si),
+                with_unit(value, unit)
+            ));
+        }
+        notes.extend(start.note.clone());
+        let names = self.names();
+        let values = self.values();
+        // Values at the solution for comparisons, warnings and outputs.
+        let mut all_names: Vec<String> = self.knowns.iter().map(|(s, _)| s.clone()).collect();
+        let mut all_values: Vec<f64> = values.clone();
+        for (s, v) in solution.unknowns.iter().chain(&solution.definitions) {
+            all_names.push(s.clone());
+            all_values.push(*v);
+        }
+        let refs: Vec<&str> = all_names.iter().map(String::as_str).collect();
+        let lookup = |s: &str| refs.iter().position(|n| *n == s).map(|i| all_values[i]);
+        let mut outputs = Vec::new();
+        let mut approximations = Vec::new();
+        if solution.converged {
+            for c in &t.comparisons {
+                let place = format!("comparison in template {}", t.id);
+                let approx = eval(&c.expr, &refs, &all_values, &place)?;
+                approximations.push(OutputValue {
+                    symbol: c.symbol.clone(),
+                    meaning: c.label.clone(),
+                    value: approx,
+                    unit: "1".to_string(),
+                });
+                if let Some(exact) = lookup(&c.against) {
+                    let diff = 100.0 * (approx - exact) / exact;
+                    notes.push(format!(
+                        "{}: {} = {} ({}{:.3} % from the implicit value {}).",
+                        c.label,
+                        c.against,
+                        sig(approx),
+                        if diff >= 0.0 { "+" } else { "" },
+                        diff,
+                        sig(exact)
+                    ));
+                }
+            }
+            for w in &t.warnings {
+                let place = format!("warning in template {}", t.id);
+                if eval(&w.when, &refs, &all_values, &place)? > 0.0 {
+                    notes.push(w.text.clone());
+                }
+            }
+            let shown = t
+                .auxiliary
+                .iter()
+                .map(|a| (&a.symbol, &a.meaning, &a.dimension, &a.unit))
+                .chain(
+                    t.outputs
+                        .iter()
+                        .map(|o| (&o.symbol, &o.meaning, &o.dimension, &o.unit)),
+                );
+            for (symbol, meaning, dimension, unit) in shown {
+                if let Some(v) = lookup(symbol) {
+                    outputs.push(OutputValue {
+                        symbol: symbol.clone(),
+                        meaning: meaning.clone(),
+                        value: units::from_si_in(v, unit, dimension)?,
+                        unit: unit.clone(),
+                    });
+                }
+            }
+        } else {
+            notes.push(format!(
+                "Not converged ({}): {}",
+                solution.status.code(),
+                solution.status.diagnosis()
+            ));
+            // Warnings written in the knowns alone (a cable shorter than its span) may
+            // say why; those that need the unknown are not evaluated at a point that is
+            // no root.
+            let place = format!("warning in template {}", t.id);
+            for w in &t.warnings {
+                if eval(&w.when, &names, &values, &place).is_ok_and(|v| v > 0.0) {
+                    notes.push(w.text.clone());
+                }
+            }
+        }
+        if let (Some(s), true) = (&start.starter, solution.converged) {
+            approximations.push(OutputValue {
+                symbol: format!("{}_start", unknown.symbol),
+                meaning: format!("{} (the starting point)", s.label),
+                value: units::from_si_in(s.value, unit, &unknown.dimension)?,
+                unit: unit.to_string(),
+            });
+        }
+        outputs.extend(approximations);
+        Ok(TemplateSolution {
+            solution,
+            value,
+            unit: unit.to_string(),
+            branch: settled.branch,
+            other_roots,
+            scan_evaluations: settled.scan_evaluations,
+            notes,
+            caution: t.caution.clone(),
+            outputs,
+        })
+    }
 }
 
 /// The difference of `approx` from `exact` in percent, signed, three decimals.
@@ -913,6 +1145,7 @@ fn check_requirements(
 }
 
 /// Where the solve starts, and the starter used, if any.
+#[derive(Debug, Clone)]
 struct StartingPoint {
     guesses: (f64, f64),
     starter: Option<StarterValue>,
@@ -920,6 +1153,7 @@ struct StartingPoint {
     note: Option<String>,
 }
 
+#[derive(Debug, Clone)]
 struct StarterValue {
     label: String,
     /// In SI.

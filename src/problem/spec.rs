@@ -1,0 +1,290 @@
+//! What a caller sends: the typed requests of the boundary, read by serde with every
+//! unknown field refused. The same structs serve JSON text (native callers, tests) and
+//! JavaScript objects (`serde-wasm-bindgen` in the bindings); [`read`] turns a serde
+//! error into an [`InputError`] that names the place (`request.tolerances.xRel`).
+
+use std::collections::BTreeMap;
+
+use serde::Deserialize;
+
+use crate::error::InputError;
+use crate::methods::{MethodKind, Options};
+use crate::tolerances::{Bounds, Tolerances};
+
+/// Reads a request of type `T` from any serde deserializer, naming the place of the
+/// first bad field.
+pub fn read<'de, T, D>(what: &str, deserializer: D) -> Result<T, InputError>
+where
+    T: Deserialize<'de>,
+    D: serde::Deserializer<'de>,
+{
+    serde_path_to_error::deserialize(deserializer).map_err(|e| {
+        let path = e.path().to_string();
+        let place = if path == "." || path.is_empty() {
+            what.to_string()
+        } else {
+            format!("{what}.{path}")
+        };
+        InputError::new("bad-request", format!("{place}: {}", e.into_inner()))
+    })
+}
+
+/// Reads a request of type `T` from JSON text.
+pub fn from_json<T: for<'de> Deserialize<'de>>(what: &str, text: &str) -> Result<T, InputError> {
+    if text.len() > crate::api::MAX_REQUEST_BYTES {
+        return Err(InputError::new(
+            "bad-request",
+            format!(
+                "{what} is {} bytes long; the limit is {}",
+                text.len(),
+                crate::api::MAX_REQUEST_BYTES
+            ),
+        ));
+    }
+    let mut de = serde_json::Deserializer::from_str(text);
+    let value = read(what, &mut de)?;
+    de.end()
+        .map_err(|e| InputError::new("bad-request", format!("{what}: {e}")))?;
+    Ok(value)
+}
+
+/// A quantity: a number (in the variable's own unit), `{value, unit}` or
+/// `[value, unit]`.
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(untagged, expecting = "a number, {value, unit} or [value, unit]")]
+pub enum Quantity {
+    Number(f64),
+    Pair(f64, String),
+    Object(QuantityObject),
+}
+
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct QuantityObject {
+    pub value: f64,
+    pub unit: String,
+}
+
+impl Quantity {
+    pub fn value(&self) -> f64 {
+        match self {
+            Quantity::Number(v) | Quantity::Pair(v, _) => *v,
+            Quantity::Object(o) => o.value,
+        }
+    }
+
+    pub fn unit(&self) -> Option<&str> {
+        match self {
+            Quantity::Number(_) => None,
+            Quantity::Pair(_, u) => Some(u),
+            Quantity::Object(o) => Some(&o.unit),
+        }
+    }
+}
+
+/// A template's known: one quantity, or a list of numbers (the list input, such as
+/// cash flows, in its own unit).
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(
+    untagged,
+    expecting = "a number, {value, unit}, [value, unit] or a list of numbers"
+)]
+pub enum Known {
+    One(Quantity),
+    List(Vec<f64>),
+}
+
+/// Bounds `[lower, upper]`, either end `null` or infinite for none.
+pub type BoundsInput = (Option<f64>, Option<f64>);
+
+/// Reads bounds, naming the place.
+pub fn bounds(b: Option<BoundsInput>, place: &str) -> Result<Bounds, InputError> {
+    let Some((lo, hi)) = b else {
+        return Ok(Bounds::UNBOUNDED);
+    };
+    let lo = lo.unwrap_or(f64::NEG_INFINITY);
+    let hi = hi.unwrap_or(f64::INFINITY);
+    Bounds::new(lo, hi).map_err(|e| InputError::new(e.code, format!("{place}: {}", e.message)))
+}
+
+/// One unknown of an equation set: a name, or `{name, guesses?, bounds?, unit?}`.
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(untagged, expecting = "a name or {name, guesses?, bounds?, unit?}")]
+pub enum UnknownInput {
+    Name(String),
+    Spec(UnknownObject),
+}
+
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct UnknownObject {
+    pub name: String,
+    #[serde(default)]
+    pub guesses: Option<(f64, f64)>,
+    #[serde(default)]
+    pub bounds: Option<BoundsInput>,
+    /// The unit of its guesses, bounds and answer (as `units[name]`).
+    #[serde(default)]
+    pub unit: Option<String>,
+}
+
+impl UnknownInput {
+    pub fn name(&self) -> &str {
+        match self {
+            UnknownInput::Name(n) => n,
+            UnknownInput::Spec(s) => &s.name,
+        }
+    }
+}
+
+/// A problem: a bundled template, or a set of equations of one's own.
+#[derive(Debug, Clone, PartialEq, Default, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "camelCase")]
+pub struct ProblemSpec {
+    /// A template's id (`pipes.colebrook`); give it or `equations`.
+    #[serde(default, alias = "id")]
+    pub template: Option<String>,
+    /// The template's knowns in any unit it accepts.
+    #[serde(default)]
+    pub values: Option<BTreeMap<String, Known>>,
+    /// The equation text; give it or `template`.
+    #[serde(default)]
+    pub equations: Option<String>,
+    /// The equations' knowns; a number is in `units[name]` (or has no unit).
+    #[serde(default)]
+    pub knowns: Option<BTreeMap<String, Quantity>>,
+    /// The unit of each variable of the equations.
+    #[serde(default)]
+    pub units: Option<BTreeMap<String, String>>,
+    /// The one unknown (a template's, or an equation's when only one is left).
+    #[serde(default)]
+    pub unknown: Option<String>,
+    /// The equations' unknowns, with guesses and bounds.
+    #[serde(default)]
+    pub unknowns: Option<Vec<UnknownInput>>,
+    /// A template's answer unit (the variable's default unit when absent).
+    #[serde(default)]
+    pub result_unit: Option<String>,
+    /// A template's branch, by its label.
+    #[serde(default)]
+    pub branch: Option<String>,
+    /// Fill knowns not given from the demo scenario (templates only).
+    #[serde(default)]
+    pub use_scenario_defaults: bool,
+}
+
+/// How to solve. Omitted fields keep their defaults.
+#[derive(Debug, Clone, PartialEq, Default, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "camelCase")]
+pub struct SolveOptions {
+    #[serde(default)]
+    pub method: Option<String>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+    /// Two guesses of the one unknown, in its unit.
+    #[serde(default)]
+    pub guesses: Option<(f64, f64)>,
+    #[serde(default)]
+    pub history: bool,
+    #[serde(default)]
+    pub sensitivities: bool,
+}
+
+/// Tolerances as sent; see [`Tolerances`] for the meaning and defaults.
+#[derive(Debug, Clone, PartialEq, Default, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "camelCase")]
+pub struct TolerancesInput {
+    #[serde(default)]
+    pub x_abs: Option<f64>,
+    #[serde(default)]
+    pub x_rel: Option<f64>,
+    #[serde(default)]
+    pub f_abs: Option<f64>,
+    #[serde(default)]
+    pub max_evals: Option<f64>,
+}
+
+impl TolerancesInput {
+    /// The tolerances, checked.
+    pub fn read(input: Option<&TolerancesInput>, place: &str) -> Result<Tolerances, InputError> {
+        let mut tol = Tolerances::default();
+        let Some(t) = input else {
+            return Ok(tol);
+        };
+        for (name, v, slot) in [
+            ("xAbs", t.x_abs, &mut tol.x_abs),
+            ("xRel", t.x_rel, &mut tol.x_rel),
+            ("fAbs", t.f_abs, &mut tol.f_abs),
+        ] {
+            if let Some(v) = v {
+                if !v.is_finite() || v < 0.0 {
+                    return Err(InputError::new(
+                        "bad-tolerance",
+                        format!("{place}.{name} must be a finite number >= 0, got {v}"),
+                    ));
+                }
+                *slot = v;
+            }
+        }
+        if let Some(n) = t.max_evals {
+            let max = crate::tolerances::MAX_EVALS;
+            if !(n.fract() == 0.0 && n >= 2.0 && n <= max as f64) {
+                return Err(InputError::new(
+                    "bad-tolerance",
+                    format!("{place}.maxEvals must be a whole number from 2 to {max}, got {n}"),
+                ));
+            }
+            tol.max_evals = n as usize;
+        }
+        tol.validate()?;
+        Ok(tol)
+    }
+}
+
+impl SolveOptions {
+    /// The driver's options (bounds are the problem's own).
+    pub fn options(&self, place: &str) -> Result<Options, InputError> {
+        let method = match &self.method {
+            Some(m) => MethodKind::from_code(m)?,
+            None => MethodKind::Auto,
+        };
+        Ok(Options {
+            method,
+            tol: TolerancesInput::read(self.tolerances.as_ref(), &format!("{place}.tolerances"))?,
+            bounds: Bounds::UNBOUNDED,
+            record_history: self.history,
+        })
+    }
+}
+
+/// A range scan: `[lo, hi]` in the unknown's unit.
+#[derive(Debug, Clone, PartialEq, Default, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "camelCase")]
+pub struct RootsOptions {
+    /// Uniform samples across the range (default 400).
+    #[serde(default)]
+    pub samples: Option<f64>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+}
+
+/// A sweep: the unknown solved at `points` evenly spaced values of the known `input`
+/// from `from` to `to` (in the input's unit), each from the previous root.
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "camelCase")]
+pub struct SweepSpec {
+    pub input: String,
+    pub from: f64,
+    pub to: f64,
+    pub points: f64,
+    /// Spacing: "linear" (default) or "log".
+    #[serde(default)]
+    pub spacing: Option<String>,
+    #[serde(default)]
+    pub method: Option<String>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+    /// Guesses for the first point, in the unknown's unit.
+    #[serde(default)]
+    pub guesses: Option<(f64, f64)>,
+}
