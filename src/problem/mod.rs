@@ -678,6 +678,7 @@ fn set_report(s: &SetSolution, c: &Conversion, cert: &Conversion) -> SolveReport
             })
             .collect(),
         sensitivity_evaluations: s.sensitivity_evaluations,
+        sensitivity_runs: s.sensitivity_runs,
         blocks: s
             .blocks
             .iter()

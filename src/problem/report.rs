@@ -201,7 +201,11 @@ pub struct SolveReport {
     pub system_history: Vec<SystemHistoryReport>,
     pub definitions: BTreeMap<String, f64>,
     pub sensitivities: Vec<SensitivityReport>,
+    /// Evaluations of f at a point made for the sensitivities (0: they are taken by
+    /// forward-mode differentiation of the compiled equations).
     pub sensitivity_evaluations: usize,
+    /// Runs of the equations with dual numbers made for the sensitivities.
+    pub sensitivity_runs: usize,
     pub blocks: Vec<BlockReport>,
     /// A template's branch label of the answer.
     pub branch: Option<String>,
