@@ -528,8 +528,19 @@ impl Problem {
 
     /// Every root from `lo` to `hi` (the unknown's unit), each with its certificate and,
     /// for a template that names its branches, its label.
+    ///
+    /// With `opts.proven`, the roots are proven instead ([`Problem::proven_roots`]).
     pub fn roots(&self, lo: f64, hi: f64, opts: &RootsOptions) -> Result<RootsReport, InputError> {
         check_range(lo, hi)?;
+        if opts.proven {
+            return self.proven_roots(lo, hi, opts);
+        }
+        if opts.max_regions.is_some() {
+            return Err(InputError::new(
+                "bad-request",
+                "options.maxRegions belongs to a proven scan: add proven: true",
+            ));
+        }
         let samples = match opts.samples {
             None => ScanOptions::default().samples,
             Some(n) if n.fract() == 0.0 && (3.0..=MAX_SAMPLES as f64).contains(&n) => n as usize,
@@ -595,6 +606,165 @@ impl Problem {
             samples: found.samples,
             spacing: c.delta_from_si(found.spacing).abs(),
             limits: found.limits,
+            proven: false,
+            regions: Vec::new(),
+            proof: None,
+        })
+    }
+
+    /// The residual of the one equation as a compiled program of the one unknown in
+    /// SI, the knowns in SI, those named in `live` kept variable; and the unknown's
+    /// conversion. Refused for several unknowns or equations, and for templates that
+    /// solve auxiliary equations.
+    fn program(
+        &self,
+        what: &str,
+        live: &[&str],
+    ) -> Result<(crate::equations::Residual, Conversion), InputError> {
+        let c = self.conversion()?;
+        match &self.kind {
+            Kind::Template(t) => Ok((t.program(live)?, c)),
+            Kind::Equations(e) => {
+                let name = self.one_unknown(what)?;
+                let knowns: Vec<(String, f64)> = e
+                    .knowns
+                    .iter()
+                    .map(|(n, v)| (n.clone(), e.units.to_si(n, *v)))
+                    .collect();
+                Ok((e.set.residual(&knowns, name, live)?, c))
+            }
+        }
+    }
+
+    /// Every root from `lo` to `hi` (the unknown's unit), proven: regions covering the
+    /// range, each holding exactly one root (proven, with its enclosure), none
+    /// (proven), or undecided with the reason (see [`crate::proven_roots`]). Nothing
+    /// undecided is reported as a root. The range is converted to SI and widened by
+    /// one unit in the last place at each end, so that rounding in the conversion
+    /// loses no part of it; region ends come back in the unit (the first and last
+    /// exactly `lo` and `hi`), and each enclosure is widened outward by one unit in
+    /// the last place after its conversion so that it still holds its root.
+    pub fn proven_roots(
+        &self,
+        lo: f64,
+        hi: f64,
+        opts: &RootsOptions,
+    ) -> Result<RootsReport, InputError> {
+        use crate::proven_roots::{proven_roots, ProofOptions, RegionKind, MAX_REGIONS};
+        check_range(lo, hi)?;
+        if opts.samples.is_some() {
+            return Err(InputError::new(
+                "bad-request",
+                "options.samples belongs to the sampling scan; a proven scan takes maxRegions",
+            ));
+        }
+        let mut proof = ProofOptions::default();
+        if let Some(n) = opts.max_regions {
+            if !(n.fract() == 0.0 && (1.0..=MAX_REGIONS as f64).contains(&n)) {
+                return Err(InputError::new(
+                    "bad-budget",
+                    format!(
+                        "options.maxRegions must be a whole number from 1 to {MAX_REGIONS}, got {n}"
+                    ),
+                ));
+            }
+            proof.max_regions = n as usize;
+        }
+        if let Some(t) = &opts.tolerances {
+            let tol = spec::TolerancesInput::read(Some(t), "options.tolerances")?;
+            if t.x_rel.is_some() {
+                proof.x_rel = tol.x_rel;
+            }
+            if t.x_abs.is_some() {
+                proof.x_abs = tol.x_abs;
+            }
+        }
+        let (mut f, c) = self.program("proven roots", &[])?;
+        let (a, b) = (c.to_si(lo), c.to_si(hi));
+        let (a, b) = (a.min(b).next_down(), a.max(b).next_up());
+        if !(a.is_finite() && b.is_finite()) {
+            return Err(InputError::new(
+                "bad-range",
+                format!("the range [{lo}, {hi}] is too large once in SI units"),
+            ));
+        }
+        let found = proven_roots(a, b, &proof, &mut f)?;
+        let clamp = |x: f64| c.from_si(x).clamp(lo, hi);
+        let unique: Vec<f64> = found.roots().filter_map(|g| g.root).collect();
+        let labels = match &self.kind {
+            Kind::Template(t) => t.label_roots(&unique),
+            Kind::Equations(_) => vec![None; unique.len()],
+        };
+        let mut labels = labels.into_iter();
+        let n = found.regions.len();
+        let mut regions = Vec::with_capacity(n);
+        let mut roots = Vec::new();
+        for (i, g) in found.regions.iter().enumerate() {
+            let enclosure = g.enclosure.map(|e| {
+                let (p, q) = (c.from_si(e.lo), c.from_si(e.hi));
+                [p.min(q).next_down(), p.max(q).next_up()]
+            });
+            let label = if g.kind == RegionKind::Unique {
+                labels.next().flatten()
+            } else {
+                None
+            };
+            let root = g.root.map(|x| c.from_si(x));
+            let region = report::RegionReport {
+                kind: g.kind.code(),
+                lo: if i == 0 { lo } else { clamp(g.lo) },
+                hi: if i + 1 == n { hi } else { clamp(g.hi) },
+                root,
+                enclosure,
+                residual: g.residual,
+                label: label.clone(),
+                why: g.why.map(|w| w.code()),
+                explanation: g.why.map(|w| w.explain()),
+            };
+            if let (Some(x), Some([p, q])) = (root, enclosure) {
+                let fx = g.residual.unwrap_or(f64::NAN);
+                roots.push(RangeRootReport {
+                    x,
+                    fx,
+                    kind: "proven",
+                    converged: true,
+                    certificate: Some(CertificateReport::proof(fx, [p, q])),
+                    label,
+                });
+            }
+            regions.push(region);
+        }
+        let undecided = found
+            .regions
+            .iter()
+            .filter(|g| g.kind == RegionKind::Undecided)
+            .count();
+        Ok(RootsReport {
+            unit: self.unit(),
+            roots,
+            discontinuities: Vec::new(),
+            evaluations: found.evaluations(),
+            samples: 0,
+            spacing: 0.0,
+            limits: if undecided == 0 {
+                "every root in the range is proven: each unique region holds exactly one, \
+                 every other region none"
+                    .to_string()
+            } else {
+                format!(
+                    "{undecided} region{} undecided (see why): a root there is neither \
+                     proven nor excluded; the unique roots are proven",
+                    if undecided == 1 { " is" } else { "s are" }
+                )
+            },
+            proven: true,
+            regions,
+            proof: Some(report::ProofCostReport {
+                regions_examined: found.regions_examined,
+                narrowing_slopes: found.narrowing_slopes,
+                point_enclosures: found.point_enclosures,
+                point_values: found.point_values,
+            }),
         })
     }
 

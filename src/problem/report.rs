@@ -73,6 +73,22 @@ impl CertificateReport {
         }
     }
 
+    /// A proven root: the interval Newton enclosure `[lo, hi]` (in the caller's unit)
+    /// holds exactly one root, and f there in floating point is `residual`.
+    pub fn proof(residual: f64, enclosure: [f64; 2]) -> CertificateReport {
+        CertificateReport {
+            kind: "interval-newton",
+            explanation: "interval arithmetic with outward rounding proves that f has \
+                          exactly one root in this enclosure: f′ keeps one sign over its \
+                          region and f changes sign across it (or is exactly 0 at its end)",
+            residual: residual.abs(),
+            bound: 0.0,
+            bracket: Some(enclosure),
+            width: enclosure[1] - enclosure[0],
+            reference: None,
+        }
+    }
+
     /// A system's certificate (no x of a single unknown to convert).
     pub fn system(cert: &Certificate) -> CertificateReport {
         CertificateReport {
@@ -235,12 +251,58 @@ pub struct RangeRootReport {
 #[serde(rename_all = "camelCase")]
 pub struct RootsReport {
     pub unit: Option<String>,
+    /// The roots found; with `proven`, exactly the proven unique roots (kind
+    /// `"proven"`, the certificate of kind `"interval-newton"` with the enclosure as
+    /// its bracket).
     pub roots: Vec<RangeRootReport>,
     pub discontinuities: Vec<[f64; 2]>,
+    /// Evaluations of f of every kind (with `proven`: enclosures over regions and at
+    /// points, and point values).
     pub evaluations: usize,
     pub samples: usize,
     pub spacing: f64,
     pub limits: String,
+    /// Whether the roots were proven (`regions` then covers the range).
+    pub proven: bool,
+    /// With `proven`: the regions, in order, covering the whole range.
+    pub regions: Vec<RegionReport>,
+    /// With `proven`: what the proof cost.
+    pub proof: Option<ProofCostReport>,
+}
+
+/// One region of a proven scan, x in the unknown's unit.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct RegionReport {
+    /// `"unique"`, `"none"` or `"undecided"`.
+    pub kind: &'static str,
+    pub lo: f64,
+    pub hi: f64,
+    /// For `unique`: the middle of the enclosure ...
+    pub root: Option<f64>,
+    /// ... the enclosure, proven to hold the one root of the region ...
+    pub enclosure: Option<[f64; 2]>,
+    /// ... f at `root` in floating point, and the template's branch label.
+    pub residual: Option<f64>,
+    pub label: Option<String>,
+    /// For `undecided`: why (`pole`, `undefined`, `jump`, `multiple-or-flat`,
+    /// `root-at-edge`, `budget`), and in plain words.
+    pub why: Option<&'static str>,
+    pub explanation: Option<&'static str>,
+}
+
+/// The work of a proven scan.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct ProofCostReport {
+    /// Enclosures of f and f′ over a region.
+    pub regions_examined: usize,
+    /// Enclosures of f and f′ while narrowing a root's enclosure.
+    pub narrowing_slopes: usize,
+    /// Enclosures of f at a point.
+    pub point_enclosures: usize,
+    /// Values of f at a point (one per root).
+    pub point_values: usize,
 }
 
 /// f sampled over a range: `x` in the unknown's unit.

@@ -266,6 +266,16 @@ pub struct RootsOptions {
     pub samples: Option<f64>,
     #[serde(default)]
     pub tolerances: Option<TolerancesInput>,
+    /// Prove the roots: regions covering the range, each `unique` (a root proven, with
+    /// its enclosure), `none` (proven) or `undecided` (with why), by interval Newton
+    /// with bisection ([`crate::proven_roots`]) instead of the sampling scan. Regions
+    /// are not split below `xAbs + xRel·|x|` of the tolerances (in SI).
+    #[serde(default)]
+    pub proven: bool,
+    /// With `proven`: regions examined at most (default 20 000, at most
+    /// [`crate::proven_roots::MAX_REGIONS`]).
+    #[serde(default)]
+    pub max_regions: Option<f64>,
 }
 
 /// A sweep: the unknown solved at `points` evenly spaced values of the known `input`
