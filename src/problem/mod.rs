@@ -31,6 +31,7 @@ use crate::outcome::Status;
 use crate::roots_in_range::{roots_in_range, ScanOptions, MAX_SAMPLES};
 use crate::templates::{self, TemplateRequest, TemplateSolution};
 use crate::tolerances::Bounds;
+use crate::uncertainty::Distribution;
 use crate::units;
 
 pub use report::{
@@ -51,6 +52,20 @@ pub const MAX_NAME_CHARS: usize = 200;
 /// A compiled problem.
 pub struct Problem {
     kind: Kind,
+    /// The knowns that carry an uncertainty, in name order.
+    uncertain: Vec<Uncertain>,
+}
+
+/// A known's standard uncertainty, read and checked.
+#[derive(Debug, Clone, PartialEq)]
+struct Uncertain {
+    name: String,
+    /// In the known's unit (`unit`), absolute.
+    standard: f64,
+    unit: Option<String>,
+    /// SI per unit of the known (a difference: no offset).
+    factor: f64,
+    distribution: Distribution,
 }
 
 enum Kind {
@@ -83,7 +98,7 @@ fn short(text: &str, place: &str) -> Result<(), InputError> {
 impl Problem {
     /// Checks and compiles a problem. Errors name the value and the place.
     pub fn compile(spec: &ProblemSpec) -> Result<Problem, InputError> {
-        match (&spec.template, &spec.equations) {
+        let mut p = match (&spec.template, &spec.equations) {
             (Some(id), None) => Problem::template(spec, id),
             (None, Some(text)) => Problem::equations(spec, text),
             (Some(_), Some(_)) => Err(InputError::new(
@@ -94,6 +109,141 @@ impl Problem {
                 "bad-request",
                 "spec: give a template id (template) or an equation text (equations)",
             )),
+        }?;
+        p.uncertain = p.read_uncertainties(spec)?;
+        Ok(p)
+    }
+
+    /// Reads `spec.uncertainties`: each names a known, with an absolute standard
+    /// uncertainty in the known's unit or a percentage of its value as given.
+    fn read_uncertainties(&self, spec: &ProblemSpec) -> Result<Vec<Uncertain>, InputError> {
+        let Some(map) = &spec.uncertainties else {
+            return Ok(Vec::new());
+        };
+        if map.len() > crate::equations::residual::MAX_LIVE_KNOWNS {
+            return Err(InputError::new(
+                "too-many-inputs",
+                format!(
+                    "spec.uncertainties names {} knowns; the limit is {}",
+                    map.len(),
+                    crate::equations::residual::MAX_LIVE_KNOWNS
+                ),
+            ));
+        }
+        let mut out = Vec::with_capacity(map.len());
+        for (name, given) in map {
+            short(name, "a name in spec.uncertainties")?;
+            let place = format!("spec.uncertainties.{name}");
+            // The known's value as given, its unit, and SI per unit.
+            let (value, unit, factor) = self.known_as_given(spec, name, &place)?;
+            let (standard, percent, distribution) = match given {
+                spec::UncertaintyInput::Standard(u) => (Some(*u), None, None),
+                spec::UncertaintyInput::Object(o) => {
+                    (o.standard, o.percent, o.distribution.as_deref())
+                }
+            };
+            let standard = match (standard, percent) {
+                (Some(u), None) => {
+                    if !(u.is_finite() && u >= 0.0) {
+                        return Err(InputError::new(
+                            "bad-uncertainty",
+                            format!("{place} must be a finite number ≥ 0, got {u}"),
+                        ));
+                    }
+                    u
+                }
+                (None, Some(pc)) => {
+                    if !(pc.is_finite() && pc >= 0.0) {
+                        return Err(InputError::new(
+                            "bad-uncertainty",
+                            format!("{place}.percent must be a finite number ≥ 0, got {pc}"),
+                        ));
+                    }
+                    pc / 100.0 * value.abs()
+                }
+                _ => return Err(InputError::new(
+                    "bad-uncertainty",
+                    format!(
+                        "{place}: give exactly one of standard (in the known's unit) or percent"
+                    ),
+                )),
+            };
+            let distribution = match distribution {
+                None | Some("gaussian") => Distribution::Gaussian,
+                Some("rectangular") => Distribution::Rectangular,
+                Some(other) => {
+                    return Err(InputError::new(
+                        "bad-uncertainty",
+                        format!("{place}.distribution must be \"gaussian\" or \"rectangular\", got \"{other}\""),
+                    ))
+                }
+            };
+            out.push(Uncertain {
+                name: name.clone(),
+                standard,
+                unit,
+                factor,
+                distribution,
+            });
+        }
+        // The knowns must be variables of the one equation: checked once here.
+        let names: Vec<&str> = out.iter().map(|u| u.name.as_str()).collect();
+        self.program("an uncertainty", &names)?;
+        Ok(out)
+    }
+
+    /// A known's value as given, its unit and SI per unit (for an uncertainty).
+    fn known_as_given(
+        &self,
+        spec: &ProblemSpec,
+        name: &str,
+        place: &str,
+    ) -> Result<(f64, Option<String>, f64), InputError> {
+        match &self.kind {
+            Kind::Template(t) => {
+                let var = t.t.variable(name).ok_or_else(|| {
+                    InputError::new(
+                        "unknown-variable",
+                        format!("{place} names no variable of template {}", t.t.id),
+                    )
+                })?;
+                if var.symbol == t.unknown.symbol {
+                    return Err(InputError::new(
+                        "bad-request",
+                        format!("{place}: {name} is the unknown; uncertainties belong to knowns"),
+                    ));
+                }
+                let (value, unit) = match spec.values.as_ref().and_then(|v| v.get(name)) {
+                    Some(Known::One(q)) => (q.value(), q.unit().unwrap_or(&var.unit).to_string()),
+                    Some(Known::List(_)) => {
+                        return Err(InputError::new(
+                            "bad-request",
+                            format!(
+                                "{place}: {name} is a list; give uncertainties of single values"
+                            ),
+                        ))
+                    }
+                    None => (var.value, var.unit.clone()),
+                };
+                let row = units::unit_in(&unit, &var.dimension)
+                    .map_err(|e| InputError::new(e.code, format!("{place}: {}", e.message)))?;
+                Ok((value, Some(unit), row.factor))
+            }
+            Kind::Equations(e) => {
+                let value = e
+                    .knowns
+                    .iter()
+                    .find(|(n, _)| n == name)
+                    .map(|&(_, v)| v)
+                    .ok_or_else(|| {
+                        InputError::new(
+                            "unknown-variable",
+                            format!("{place}: {name} is not one of the knowns"),
+                        )
+                    })?;
+                let factor = e.units.unit(name).map_or(1.0, |u| u.factor);
+                Ok((value, e.unit_text.get(name).cloned(), factor))
+            }
         }
     }
 
@@ -175,6 +325,7 @@ impl Problem {
         };
         Ok(Problem {
             kind: Kind::Template(Box::new(templates::compile(&req)?)),
+            uncertain: Vec::new(),
         })
     }
 
@@ -315,6 +466,7 @@ impl Problem {
                 units: checked,
                 unit_text,
             })),
+            uncertain: Vec::new(),
         })
     }
 
@@ -369,8 +521,82 @@ impl Problem {
         })
     }
 
-    /// Solves the problem.
+    /// Solves the problem. When the spec gives `uncertainties` and the solve
+    /// converged, the report carries the one unknown's `uncertainty`, with every
+    /// Monte Carlo trial run here (see [`Problem::uncertainty`] to run them in chunks).
     pub fn solve(&self, opts: &SolveOptions) -> Result<SolveReport, InputError> {
+        let mut report = self.solve_nominal(opts)?;
+        if self.uncertain.is_empty() || !report.converged {
+            return Ok(report);
+        }
+        if let (Some(name), Some(root)) = (report.unknown.clone(), report.root_si) {
+            let mut run = self.uncertainty_at(root, opts)?;
+            run.advance(run.trials());
+            report.uncertainty.insert(name, run.report());
+        }
+        Ok(report)
+    }
+
+    /// Starts the uncertainty of the one unknown from the knowns' (`spec.uncertainties`):
+    /// solves with `opts`, applies the law of propagation at the root at once, and
+    /// leaves the Monte Carlo trials (`opts.uncertainty.trials`) to
+    /// [`UncertaintyRun::advance`], in chunks.
+    pub fn uncertainty(&self, opts: &SolveOptions) -> Result<UncertaintyRun, InputError> {
+        let report = self.solve_nominal(opts)?;
+        match (report.converged, report.root_si) {
+            (true, Some(root)) => self.uncertainty_at(root, opts),
+            _ => Err(InputError::new(
+                "not-converged",
+                format!(
+                    "the uncertainty is taken at the answer, and the solve did not converge \
+                     ({}): {}",
+                    report.status, report.message
+                ),
+            )),
+        }
+    }
+
+    fn uncertainty_at(
+        &self,
+        root_si: f64,
+        opts: &SolveOptions,
+    ) -> Result<UncertaintyRun, InputError> {
+        use crate::uncertainty::{linear, MonteCarloRun, ResidualModel, UncertainInput};
+        if self.uncertain.is_empty() {
+            return Err(InputError::new(
+                "no-uncertainties",
+                "spec.uncertainties gives no known an uncertainty",
+            ));
+        }
+        let options =
+            spec::UncertaintyOptionsInput::read(opts.uncertainty.as_ref(), "options.uncertainty")?;
+        let names: Vec<&str> = self.uncertain.iter().map(|u| u.name.as_str()).collect();
+        let (residual, conversion) = self.program("an uncertainty", &names)?;
+        let inputs: Vec<UncertainInput> = self
+            .uncertain
+            .iter()
+            .zip(residual.knowns())
+            .map(|(u, &value)| UncertainInput {
+                value,
+                standard: u.standard * u.factor,
+                distribution: u.distribution,
+            })
+            .collect();
+        let mut model = ResidualModel::new(residual, self.bounds_si());
+        let linear = linear(&mut model, &inputs, root_si, options.coverage_factor)?;
+        let run = MonteCarloRun::new(model, &inputs, root_si, &options)?;
+        Ok(UncertaintyRun {
+            run,
+            linear,
+            seed: options.seed,
+            digits: options.significant_digits,
+            conversion,
+            unit: self.unit(),
+            uncertain: self.uncertain.clone(),
+        })
+    }
+
+    fn solve_nominal(&self, opts: &SolveOptions) -> Result<SolveReport, InputError> {
         let options = opts.options("options")?;
         match &self.kind {
             Kind::Template(c) => {
@@ -1050,6 +1276,120 @@ impl<'p> Sweep<'p> {
 
     pub fn report(&self) -> &SweepReport {
         &self.report
+    }
+}
+
+/// The uncertainty of a problem's one unknown in progress: the law of propagation
+/// done, the Monte Carlo trials run in chunks with [`UncertaintyRun::advance`] so that
+/// a page can show progress and cancel (as [`Sweep`]). Its work is bounded by
+/// `uncertainty::MAX_TRIALS` trials; the values kept for the coverage interval take
+/// 8 bytes a trial.
+pub struct UncertaintyRun {
+    run: crate::uncertainty::MonteCarloRun<crate::uncertainty::ResidualModel>,
+    /// In SI.
+    linear: crate::uncertainty::LinearPropagation,
+    seed: u64,
+    digits: u32,
+    conversion: Conversion,
+    unit: Option<String>,
+    uncertain: Vec<Uncertain>,
+}
+
+impl UncertaintyRun {
+    /// Runs up to `chunk` more trials (at least one while any are left); the trials
+    /// done so far.
+    pub fn advance(&mut self, chunk: usize) -> usize {
+        self.run.advance(chunk)
+    }
+
+    pub fn done(&self) -> usize {
+        self.run.done()
+    }
+
+    /// The trials asked for.
+    pub fn trials(&self) -> usize {
+        self.run.trials()
+    }
+
+    pub fn is_done(&self) -> bool {
+        self.run.is_done()
+    }
+
+    /// The result in the unknown's unit: the law of propagation at once; the Monte
+    /// Carlo result and the JCGM 101 §8 validation once every trial is done.
+    pub fn report(&self) -> report::UncertaintyReport {
+        use crate::uncertainty::{validate, LinearPropagation, MonteCarlo};
+        let c = &self.conversion;
+        let l = &self.linear;
+        let linear = LinearPropagation {
+            value: c.from_si(l.value),
+            sensitivities: l
+                .sensitivities
+                .iter()
+                .zip(&self.uncertain)
+                .map(|(s, u)| s * u.factor / c.factor)
+                .collect(),
+            contributions: l
+                .contributions
+                .iter()
+                .map(|v| c.delta_from_si(*v))
+                .collect(),
+            standard: c.delta_from_si(l.standard),
+            coverage_factor: l.coverage_factor,
+            expanded: c.delta_from_si(l.expanded),
+        };
+        let mc = (self.run.trials() > 0 && self.run.is_done()).then(|| {
+            let m = self.run.finish();
+            MonteCarlo {
+                mean: c.from_si(m.mean),
+                standard: c.delta_from_si(m.standard),
+                interval: (c.from_si(m.interval.0), c.from_si(m.interval.1)),
+                ..m
+            }
+        });
+        let validation = mc.as_ref().and_then(|m| validate(&linear, m, self.digits));
+        report::UncertaintyReport {
+            unit: self.unit.clone(),
+            value: linear.value,
+            standard: linear.standard,
+            expanded: linear.expanded,
+            coverage_factor: linear.coverage_factor,
+            contributions: self
+                .uncertain
+                .iter()
+                .zip(linear.sensitivities.iter().zip(&linear.contributions))
+                .map(
+                    |(u, (&sensitivity, &contribution))| report::ContributionReport {
+                        input: u.name.clone(),
+                        standard: u.standard,
+                        input_unit: u.unit.clone(),
+                        distribution: match u.distribution {
+                            Distribution::Gaussian => "gaussian",
+                            Distribution::Rectangular => "rectangular",
+                        },
+                        sensitivity,
+                        contribution,
+                    },
+                )
+                .collect(),
+            monte_carlo: mc.as_ref().map(|m| report::MonteCarloReport {
+                trials: m.trials,
+                failed: m.failed,
+                interval: [m.interval.0, m.interval.1],
+                mean: m.mean,
+                standard: m.standard,
+                seed: self.seed,
+                evaluations: m.evaluations,
+            }),
+            validation: validation.map(|v| report::ValidationReport {
+                agrees: v.agrees,
+                tolerance: v.tolerance,
+                gum_interval: [v.gum_interval.0, v.gum_interval.1],
+                d_low: v.d_low,
+                d_high: v.d_high,
+                message: v.message,
+            }),
+        }
     }
 }
 

@@ -231,6 +231,76 @@ pub struct SolveReport {
     pub notes: Vec<String>,
     pub caution: Option<String>,
     pub outputs: Vec<OutputReport>,
+    /// Per unknown, its uncertainty from the knowns' (when the spec gives
+    /// `uncertainties` and the solve converged), in the unknown's unit.
+    pub uncertainty: BTreeMap<String, UncertaintyReport>,
+}
+
+/// The uncertainty of an unknown, in its unit: the law of propagation (JCGM 100:2008,
+/// eq. 10) and the Monte Carlo check (JCGM 101:2008) with the validation of its §8.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct UncertaintyReport {
+    pub unit: Option<String>,
+    /// The value the propagation is about (the root).
+    pub value: f64,
+    /// Combined standard uncertainty u_c.
+    pub standard: f64,
+    /// U = k·u_c.
+    pub expanded: f64,
+    pub coverage_factor: f64,
+    /// Each uncertain known's share.
+    pub contributions: Vec<ContributionReport>,
+    /// Absent with `trials: 0`, or while a chunked run is not finished.
+    pub monte_carlo: Option<MonteCarloReport>,
+    pub validation: Option<ValidationReport>,
+}
+
+/// One known's part in the uncertainty of the answer.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct ContributionReport {
+    pub input: String,
+    /// The known's standard uncertainty in the known's unit.
+    pub standard: f64,
+    /// The unit of `standard` (absent with no unit).
+    pub input_unit: Option<String>,
+    /// `"gaussian"` or `"rectangular"`.
+    pub distribution: &'static str,
+    /// ∂x/∂k in the unknown's unit per the known's unit.
+    pub sensitivity: f64,
+    /// |∂x/∂k|·u(k), in the unknown's unit.
+    pub contribution: f64,
+}
+
+/// The Monte Carlo result, in the unknown's unit.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct MonteCarloReport {
+    pub trials: usize,
+    /// Trials in which no root was found (left out of the statistics).
+    pub failed: usize,
+    /// The 95 % probabilistically symmetric coverage interval (JCGM 101 §7.7).
+    pub interval: [f64; 2],
+    pub mean: f64,
+    pub standard: f64,
+    pub seed: u64,
+    /// Evaluations of f of every kind over all trials.
+    pub evaluations: usize,
+}
+
+/// JCGM 101 §8: whether the law of propagation is validated by the Monte Carlo result.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct ValidationReport {
+    pub agrees: bool,
+    /// δ, the numerical tolerance of u_c, in the unknown's unit.
+    pub tolerance: f64,
+    /// x ± k₉₅·u_c.
+    pub gum_interval: [f64; 2],
+    pub d_low: f64,
+    pub d_high: f64,
+    pub message: String,
 }
 
 /// One root found in a range.
