@@ -161,12 +161,14 @@ impl Problem {
                     }
                     pc / 100.0 * value.abs()
                 }
-                _ => return Err(InputError::new(
-                    "bad-uncertainty",
-                    format!(
+                _ => {
+                    return Err(InputError::new(
+                        "bad-uncertainty",
+                        format!(
                         "{place}: give exactly one of standard (in the known's unit) or percent"
                     ),
-                )),
+                    ))
+                }
             };
             let distribution = match distribution {
                 None | Some("gaussian") => Distribution::Gaussian,
