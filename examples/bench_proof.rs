@@ -335,7 +335,8 @@ fn sensitivities() {
         "sensitivities of a solved set", "forward", "runs", "diff.", "evals", "×fwd", "max |rel|"
     );
     let pipe = "V := Q/(pi*D^2/4)\nRe := V*D/nu\nhf = f*(L/D)*V^2/(2*g)\n1/sqrt(f) = -2*log10(eps/(3.7*D) + 2.51/(Re*sqrt(f)))";
-    let cases: [(&str, String, Vec<(&str, f64)>, Vec<UnknownSpec>); 2] = [
+    type Case<'a> = (&'a str, String, Vec<(&'a str, f64)>, Vec<UnknownSpec>);
+    let cases: [Case; 2] = [
         (
             "Colebrook f (1 unknown, 3 knowns)",
             template("pipes.colebrook"),
