@@ -46,6 +46,7 @@ use crate::outcome::Status;
 use crate::tolerances::Bounds;
 use crate::units;
 
+pub mod own;
 mod roots;
 
 /// The standard caution shown with safety-related results.
