@@ -62,6 +62,18 @@ pub trait ImplicitModel {
     }
 }
 
+impl<M: ImplicitModel + ?Sized> ImplicitModel for &mut M {
+    fn gradient(&mut self, x: f64, k: &[f64], gradient: &mut [f64]) -> f64 {
+        (**self).gradient(x, k, gradient)
+    }
+    fn solve(&mut self, k: &[f64], x0: f64) -> Option<f64> {
+        (**self).solve(k, x0)
+    }
+    fn evaluations(&self) -> usize {
+        (**self).evaluations()
+    }
+}
+
 /// [`ImplicitModel`] from two closures.
 pub struct FromClosures<G, S> {
     pub gradient: G,
@@ -339,15 +351,7 @@ fn check_options(options: &UncertaintyOptions) -> Result<(), InputError> {
     Ok(())
 }
 
-/// The uncertainty of the root of `model` from the knowns `inputs`, starting near `x0`.
-pub fn propagate<M: ImplicitModel>(
-    model: &mut M,
-    inputs: &[UncertainInput],
-    x0: f64,
-    options: &UncertaintyOptions,
-) -> Result<UncertaintyResult, InputError> {
-    check_options(options)?;
-    require_finite(x0, "the starting point")?;
+fn check_inputs(inputs: &[UncertainInput]) -> Result<(), InputError> {
     for (i, input) in inputs.iter().enumerate() {
         require_finite(input.value, &format!("the value of known {}", i + 1))?;
         if !(input.standard.is_finite() && input.standard >= 0.0) {
@@ -361,6 +365,19 @@ pub fn propagate<M: ImplicitModel>(
             ));
         }
     }
+    Ok(())
+}
+
+/// The uncertainty of the root of `model` from the knowns `inputs`, starting near `x0`.
+pub fn propagate<M: ImplicitModel>(
+    model: &mut M,
+    inputs: &[UncertainInput],
+    x0: f64,
+    options: &UncertaintyOptions,
+) -> Result<UncertaintyResult, InputError> {
+    check_options(options)?;
+    require_finite(x0, "the starting point")?;
+    check_inputs(inputs)?;
     let nominal: Vec<f64> = inputs.iter().map(|i| i.value).collect();
     let Some(x) = model.solve(&nominal, x0) else {
         return Err(InputError::new(
@@ -368,6 +385,42 @@ pub fn propagate<M: ImplicitModel>(
             format!("no root was found at the nominal values, starting from {x0}"),
         ));
     };
+    let linear = linear(model, inputs, x, options.coverage_factor)?;
+    if options.trials == 0 {
+        return Ok(UncertaintyResult {
+            linear,
+            monte_carlo: None,
+            validation: None,
+        });
+    }
+    let mut run = MonteCarloRun::new(&mut *model, inputs, x, options)?;
+    run.advance(options.trials);
+    let monte_carlo = run.finish();
+    let validation = validate(&linear, &monte_carlo, options.significant_digits);
+    Ok(UncertaintyResult {
+        linear,
+        monte_carlo: Some(monte_carlo),
+        validation,
+    })
+}
+
+/// The law of propagation (GUM eq. 10) at the root `x` of `model` at the nominal
+/// values of `inputs`, with coverage factor `k`: one gradient of F by forward-mode
+/// differentiation where the model is a program.
+pub fn linear<M: ImplicitModel>(
+    model: &mut M,
+    inputs: &[UncertainInput],
+    x: f64,
+    k: f64,
+) -> Result<LinearPropagation, InputError> {
+    check_inputs(inputs)?;
+    if !(k.is_finite() && k > 0.0) {
+        return Err(InputError::new(
+            "bad-coverage-factor",
+            format!("the coverage factor must be a finite number above 0, got {k}"),
+        ));
+    }
+    let nominal: Vec<f64> = inputs.iter().map(|i| i.value).collect();
     let mut gradient = vec![0.0; 1 + inputs.len()];
     model.gradient(x, &nominal, &mut gradient);
     let fx = gradient[0];
@@ -397,65 +450,122 @@ pub fn propagate<M: ImplicitModel>(
     } else {
         0.0
     };
-    let linear = LinearPropagation {
+    Ok(LinearPropagation {
         value: x,
         sensitivities,
         contributions,
         standard,
-        coverage_factor: options.coverage_factor,
-        expanded: options.coverage_factor * standard,
-    };
-    if options.trials == 0 {
-        return Ok(UncertaintyResult {
-            linear,
-            monte_carlo: None,
-            validation: None,
-        });
-    }
-    let monte_carlo = monte_carlo(model, inputs, x, options);
-    let validation = validate(&linear, &monte_carlo, options.significant_digits);
-    Ok(UncertaintyResult {
-        linear,
-        monte_carlo: Some(monte_carlo),
-        validation,
+        coverage_factor: k,
+        expanded: k * standard,
     })
 }
 
-fn monte_carlo<M: ImplicitModel>(
-    model: &mut M,
-    inputs: &[UncertainInput],
+/// A Monte Carlo propagation in progress, run in chunks ([`MonteCarloRun::advance`])
+/// so that a caller can show progress and stop; [`MonteCarloRun::finish`] gives the
+/// result over the trials run. Each trial draws every known and solves from the
+/// nominal root `x`. The same seed gives the same trials however the run is chunked.
+pub struct MonteCarloRun<M: ImplicitModel> {
+    model: M,
+    inputs: Vec<UncertainInput>,
     x: f64,
-    options: &UncertaintyOptions,
-) -> MonteCarlo {
-    let before = model.evaluations();
-    let mut rng = Pcg64::seeded(options.seed);
-    let mut k = vec![0.0; inputs.len()];
-    let mut values: Vec<f64> = Vec::with_capacity(options.trials);
-    let mut failed = 0usize;
-    for _ in 0..options.trials {
-        for (slot, input) in k.iter_mut().zip(inputs) {
-            *slot = rng.draw(input);
-        }
-        match model.solve(&k, x) {
-            Some(root) if root.is_finite() => values.push(root),
-            _ => failed += 1,
-        }
+    rng: Pcg64,
+    k: Vec<f64>,
+    values: Vec<f64>,
+    failed: usize,
+    trials: usize,
+    done: usize,
+    evaluations: usize,
+}
+
+impl<M: ImplicitModel> MonteCarloRun<M> {
+    /// A run of `options.trials` trials (at most [`MAX_TRIALS`]) seeded with
+    /// `options.seed`.
+    pub fn new(
+        model: M,
+        inputs: &[UncertainInput],
+        x: f64,
+        options: &UncertaintyOptions,
+    ) -> Result<MonteCarloRun<M>, InputError> {
+        check_options(options)?;
+        check_inputs(inputs)?;
+        require_finite(x, "the nominal root")?;
+        Ok(MonteCarloRun {
+            model,
+            inputs: inputs.to_vec(),
+            x,
+            rng: Pcg64::seeded(options.seed),
+            k: vec![0.0; inputs.len()],
+            values: Vec::new(),
+            failed: 0,
+            trials: options.trials,
+            done: 0,
+            evaluations: 0,
+        })
     }
-    values.sort_by(f64::total_cmp);
-    let n = values.len() as f64;
-    let mean = values.iter().sum::<f64>() / n;
-    let variance = values.iter().map(|v| (v - mean).powi(2)).sum::<f64>() / (n - 1.0);
-    MonteCarlo {
-        trials: options.trials,
-        failed,
-        mean,
-        standard: variance.sqrt(),
-        interval: coverage_interval(&values, 0.95),
-        evaluations: model.evaluations() - before,
+
+    /// Runs up to `chunk` more trials (at least one while any are left); the trials
+    /// done so far.
+    pub fn advance(&mut self, chunk: usize) -> usize {
+        let end = (self.done + chunk.max(1)).min(self.trials);
+        if self.values.capacity() == 0 && end > self.done {
+            // Reserved once, bounded by MAX_TRIALS.
+            self.values.reserve_exact(self.trials);
+        }
+        let before = self.model.evaluations();
+        for _ in self.done..end {
+            for (slot, input) in self.k.iter_mut().zip(&self.inputs) {
+                *slot = self.rng.draw(input);
+            }
+            match self.model.solve(&self.k, self.x) {
+                Some(root) if root.is_finite() => self.values.push(root),
+                _ => self.failed += 1,
+            }
+        }
+        self.evaluations += self.model.evaluations().saturating_sub(before);
+        self.done = end;
+        self.done
+    }
+
+    /// The model, to compute other things with it.
+    pub fn model(&mut self) -> &mut M {
+        &mut self.model
+    }
+
+    /// Trials done so far.
+    pub fn done(&self) -> usize {
+        self.done
+    }
+
+    /// Trials asked for.
+    pub fn trials(&self) -> usize {
+        self.trials
+    }
+
+    pub fn is_done(&self) -> bool {
+        self.done >= self.trials
+    }
+
+    /// The result over the trials done so far.
+    pub fn finish(&self) -> MonteCarlo {
+        let mut values = self.values.clone();
+        values.sort_by(f64::total_cmp);
+        let n = values.len() as f64;
+        let mean = values.iter().sum::<f64>() / n;
+        let variance = values.iter().map(|v| (v - mean).powi(2)).sum::<f64>() / (n - 1.0);
+        MonteCarlo {
+            trials: self.done,
+            failed: self.failed,
+            mean,
+            standard: variance.sqrt(),
+            interval: coverage_interval(&values, 0.95),
+            evaluations: self.evaluations,
+        }
     }
 }
 
-fn validate(linear: &LinearPropagation, mc: &MonteCarlo, digits: u32) -> Option<Validation> {
+/// The comparison of JCGM 101 §8 of the law of propagation with a Monte Carlo result
+/// (`None` when every trial failed).
+pub fn validate(linear: &LinearPropagation, mc: &MonteCarlo, digits: u32) -> Option<Validation> {
     if mc.trials == mc.failed {
         return None;
     }
@@ -512,13 +622,26 @@ pub enum Standard {
 }
 
 /// An equation's residual as an [`ImplicitModel`]: gradients by forward-mode
-/// differentiation, roots by the default method from x0 and one Newton step from it.
-struct SetModel {
+/// differentiation, roots by the default method from x0 and one Newton step from it,
+/// within `bounds`. The live knowns of the residual are the uncertain ones, in order.
+pub struct ResidualModel {
     residual: Residual,
     options: Options,
 }
 
-impl ImplicitModel for SetModel {
+impl ResidualModel {
+    pub fn new(residual: Residual, bounds: Bounds) -> ResidualModel {
+        ResidualModel {
+            residual,
+            options: Options {
+                bounds,
+                ..Options::default()
+            },
+        }
+    }
+}
+
+impl ImplicitModel for ResidualModel {
     fn gradient(&mut self, x: f64, k: &[f64], gradient: &mut [f64]) -> f64 {
         self.residual.set_knowns(k);
         self.residual.gradient(x, gradient)
@@ -588,12 +711,6 @@ pub fn propagate_in_set(
             distribution: u.distribution,
         });
     }
-    let mut model = SetModel {
-        residual,
-        options: Options {
-            bounds,
-            ..Options::default()
-        },
-    };
+    let mut model = ResidualModel::new(residual, bounds);
     propagate(&mut model, &inputs, x0, options)
 }

@@ -271,27 +271,24 @@ fn sensitivities_match_analytic_derivatives_darcy_weisbach() {
         assert_eq!(sens.unknown, "D");
         assert_eq!(sens.input, input);
         let p = given.iter().find(|(n, _)| n == input).unwrap().1;
-        // 1e-5: dF/dD may come from the solver's own points (see the re-use rule).
+        // Forward-mode derivatives: exact up to rounding and to the root's own
+        // tolerance (x_rel = 1e-12); central differences held only 1e-5 here.
         check_close(
             sens.relative,
             rel,
-            1e-5,
+            1e-11,
             &format!("relative dD/d{input}, analytic"),
         );
         check_close(
             sens.derivative,
             rel * d / p,
-            1e-5,
+            1e-11,
             &format!("dD/d{input}, analytic"),
         );
     }
-    // Two new evaluations per given value, plus two for dF/dD unless the solver's own
-    // points gave it.
-    assert!(
-        s.sensitivity_evaluations == 10 || s.sensitivity_evaluations == 12,
-        "{}",
-        s.sensitivity_evaluations
-    );
+    // No evaluation of f at a point: one run with dual numbers per unknown and known.
+    assert_eq!(s.sensitivity_evaluations, 0);
+    assert_eq!(s.sensitivity_runs, 1 + 5);
 }
 
 #[test]
@@ -320,7 +317,7 @@ fn sensitivities_match_analytic_derivatives_colebrook() {
         check_close(
             sens.derivative,
             expected,
-            1e-6,
+            1e-12,
             &format!("df/d{input}, analytic"),
         );
     }
@@ -349,13 +346,10 @@ fn sensitivities_of_a_coupled_pair_match_analytic_derivatives() {
     ];
     for (sens, (u, p, d)) in s.sensitivities.iter().zip(expected) {
         assert_eq!((sens.unknown.as_str(), sens.input.as_str()), (u, p));
-        check_close(sens.derivative, d, 1e-6, &format!("d{u}/d{p}, analytic"));
+        check_close(sens.derivative, d, 1e-10, &format!("d{u}/d{p}, analytic"));
     }
-    assert_eq!(
-        s.sensitivity_evaluations,
-        2 * 4,
-        "central differences, 2 per column"
-    );
+    assert_eq!(s.sensitivity_evaluations, 0, "no evaluation at a point");
+    assert_eq!(s.sensitivity_runs, 2 + 2, "one dual run per column");
 }
 
 #[test]
@@ -576,4 +570,51 @@ fn secant_slopes_are_reused_only_when_accurate() {
     assert_eq!(slope_from_history(&[row(2.02), row(1.98)], 2.0), None);
     // Points 1e-14 apart: rounding would dominate, not re-used.
     assert_eq!(slope_from_history(&[row(2.0), row(2.0 + 4e-14)], 2.0), None);
+}
+
+#[test]
+fn forward_mode_sensitivities_agree_with_central_differences() {
+    // The two ways of taking the Jacobians (equations::sensitivity::Method) on White's
+    // pipe of §6.5 as one coupled set (four unknowns' worth of definitions, Colebrook
+    // and Darcy–Weisbach together): central differences keep about 10 digits (common
+    // practice, no source), so they must agree to 1e-7 relative; the forward-mode ones
+    // are checked against closed forms in the tests above.
+    use tacit::equations::sensitivity::{sensitivities_at, Method};
+    let set = EquationSet::parse(PIPE).unwrap();
+    let given = knowns(&[
+        ("D", 0.5),
+        ("L", 200.0),
+        ("eps", 0.0004),
+        ("nu", 1.1e-5),
+        ("hf", 4.5),
+        ("g", 32.2),
+    ]);
+    let specs = [
+        UnknownSpec::named("Q").with_guesses(1.0, 1.2),
+        UnknownSpec::named("f").with_guesses(0.02, 0.021),
+    ];
+    let s = solve_set(&set, &given, &specs, &Options::default(), true).unwrap();
+    assert!(s.converged, "{:?}", s.status);
+    let (by_differences, cost) =
+        sensitivities_at(&set, &given, &s.unknowns, Method::CentralDifferences).unwrap();
+    assert_eq!(cost.evaluations, 2 * (2 + 6));
+    assert_eq!(by_differences.len(), s.sensitivities.len());
+    for (exact, diff) in s.sensitivities.iter().zip(&by_differences) {
+        assert_eq!((&exact.unknown, &exact.input), (&diff.unknown, &diff.input));
+        check_close(
+            exact.derivative,
+            diff.derivative,
+            1e-7,
+            &format!(
+                "d{}/d{} against central differences",
+                exact.unknown, exact.input
+            ),
+        );
+    }
+    let (again, cost) = sensitivities_at(&set, &given, &s.unknowns, Method::ForwardMode).unwrap();
+    assert_eq!(
+        again, s.sensitivities,
+        "the same runs give the same numbers"
+    );
+    assert_eq!((cost.evaluations, cost.runs), (0, 8));
 }

@@ -6,22 +6,26 @@
 //! sensitivity `(du/dp)(p/u)` is the percentage change of u per 1 % change of p
 //! (NaN when u = 0).
 //!
-//! **Jacobians by central differences.** Column j is `(F(z + h e_j) - F(z - h e_j)) /
-//! (z_j+h - (z_j-h))` with `h = ε^(1/3)·|z_j|` (about 6.1e-6 relative; `ε^(1/3)` when
-//! z_j = 0), ε the machine epsilon. That step balances the O(h²) truncation error
-//! against the O(ε/h) rounding error, leaving about 10 correct digits for smooth
-//! residuals (common practice, no source). The divisor is the difference of the two
-//! points actually evaluated, so the rounding of z ± h does not bias the slope.
+//! **Jacobians by forward-mode differentiation** ([`Method::ForwardMode`], the one
+//! every solve of an equation text or a template uses). The equations are compiled
+//! programs, so column j of [u p] is one run of every equation with dual numbers
+//! ([`crate::equations::Dual`]) seeded along z_j: exact up to rounding, with no step
+//! to choose and no evaluation of f at a point, so `sensitivity_evaluations` is 0; the
+//! runs are counted in `sensitivity_runs` (n + m of them for n unknowns and m knowns).
 //!
-//! **Re-use.** When the whole set was one scalar problem, J_u is the slope of a secant
-//! through two points the solver already evaluated, if two lie close to the root but
-//! not too close to each other: for points within d·|u| of the root and w·|u| apart,
-//! the slope's relative error is taken as `d + 1e-15/w` (truncation plus rounding) and
-//! the pair is used when that is at most [`REUSE_TOLERANCE`] (1e-5: five
-//! significant digits, ample for a design sensitivity). Otherwise, and for J_p always, new
-//! evaluations are made, each one evaluation of every equation of the set, counted in
-//! `SetSolution::sensitivity_evaluations`: 2 per column computed.
+//! **Jacobians by central differences** ([`Method::CentralDifferences`]), for functions
+//! that are not programs (a JavaScript callback) and as an independent check in the
+//! tests. Column j is `(F(z + h e_j) - F(z - h e_j)) / (z_j+h - (z_j-h))` with
+//! `h = ε^(1/3)·|z_j|` (about 6.1e-6 relative; `ε^(1/3)` when z_j = 0), ε the machine
+//! epsilon. That step balances the O(h²) truncation error against the O(ε/h) rounding
+//! error, leaving about 10 correct digits for smooth residuals (common practice, no
+//! source). The divisor is the difference of the two points actually evaluated, so the
+//! rounding of z ± h does not bias the slope. When the whole set was one scalar
+//! problem, J_u may be the slope of a secant through two points the solver already
+//! evaluated ([`slope_from_history`]). Each column costs 2 evaluations of every
+//! equation, counted in `sensitivity_evaluations`.
 
+use super::dual::Dual;
 use super::set::Layout;
 use crate::error::InputError;
 use crate::outcome::HistoryRow;
@@ -83,9 +87,73 @@ pub fn step(z: f64) -> f64 {
     }
 }
 
+/// How the Jacobians of the sensitivities are computed.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Method {
+    /// One run of the program with dual numbers per column: exact up to rounding.
+    ForwardMode,
+    /// Two evaluations per column (see the module documentation).
+    CentralDifferences,
+}
+
+impl Method {
+    pub fn code(self) -> &'static str {
+        match self {
+            Method::ForwardMode => "forward-mode",
+            Method::CentralDifferences => "central-differences",
+        }
+    }
+}
+
+/// What the sensitivities cost.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct Cost {
+    /// Evaluations of every equation at a point (central differences only).
+    pub evaluations: usize,
+    /// Runs of every equation with dual numbers (forward mode only).
+    pub runs: usize,
+}
+
+/// Sensitivities of the `unknowns` (name and solved value) of `set` to every one of
+/// the `knowns`, computed with `method`, in unknown-major order, and their cost.
+///
+/// ```
+/// use tacit::equations::EquationSet;
+/// use tacit::equations::sensitivity::{sensitivities_at, Method};
+/// // x = a·b: dx/da = b, dx/db = a.
+/// let set = EquationSet::parse("x = a*b").unwrap();
+/// let knowns = [("a".to_string(), 3.0), ("b".to_string(), 5.0)];
+/// let (s, cost) = sensitivities_at(&set, &knowns, &[("x".into(), 15.0)], Method::ForwardMode).unwrap();
+/// assert_eq!((s[0].derivative, s[1].derivative), (5.0, 3.0));
+/// assert_eq!((cost.evaluations, cost.runs), (0, 3));
+/// ```
+pub fn sensitivities_at(
+    set: &super::EquationSet,
+    knowns: &[(String, f64)],
+    unknowns: &[(String, f64)],
+    method: Method,
+) -> Result<(Vec<Sensitivity>, Cost), InputError> {
+    let specs: Vec<super::UnknownSpec> = unknowns
+        .iter()
+        .map(|(n, _)| super::UnknownSpec::named(n))
+        .collect();
+    let plan = super::solve::check_names(set, knowns, &specs)?;
+    let names: Vec<String> = unknowns.iter().map(|(n, _)| n.clone()).collect();
+    let layout = set.layout(plan.variables.clone(), &names);
+    let slots: Vec<usize> = names
+        .iter()
+        .map(|n| layout.require_slot(n))
+        .collect::<Result<_, _>>()?;
+    let mut values = plan.values.clone();
+    for (&s, (_, v)) in slots.iter().zip(unknowns) {
+        values[s] = *v;
+    }
+    compute(&layout, &values, &names, &slots, knowns, None, method)
+}
+
 /// Sensitivities of `names` (at variable slots `slots`) to every known, at the
 /// solution `values` (indexed by variable slot). Returns them (unknown-major order)
-/// and the number of new evaluations of the set.
+/// and what they cost.
 pub(crate) fn compute(
     layout: &Layout<'_>,
     values: &[f64],
@@ -93,11 +161,12 @@ pub(crate) fn compute(
     slots: &[usize],
     knowns: &[(String, f64)],
     history: Option<&[HistoryRow]>,
-) -> Result<(Vec<crate::equations::Sensitivity>, usize), InputError> {
+    method: Method,
+) -> Result<(Vec<crate::equations::Sensitivity>, Cost), InputError> {
     let n = names.len();
     let m = knowns.len();
     if m == 0 {
-        return Ok((Vec::new(), 0));
+        return Ok((Vec::new(), Cost::default()));
     }
     let mut live: Vec<usize> = slots.to_vec();
     for (k, _) in knowns {
@@ -106,29 +175,46 @@ pub(crate) fn compute(
     let equations = layout_equations(layout);
     let mut block = layout.block(values, &live, u128::MAX, &equations)?;
     let z0: Vec<f64> = live.iter().map(|&s| values[s]).collect();
-    let mut evals = 0;
+    let mut cost = Cost::default();
     // jac[i][j] = dF_i / dz_j, z = (u, p).
     let mut jac = vec![vec![0.0; n + m]; n];
-    let mut z = z0.clone();
-    let mut fp = vec![0.0; n];
-    let mut fm = vec![0.0; n];
-    for j in 0..n + m {
-        if j < n && n == 1 {
-            if let Some(s) = history.and_then(|h| slope_from_history(h, z0[0])) {
-                jac[0][0] = s;
-                continue;
+    match method {
+        Method::ForwardMode => {
+            let mut z: Vec<Dual<f64>> = z0.iter().map(|&v| Dual::fixed(v)).collect();
+            let (mut scratch, mut stack, mut out) = (Vec::new(), Vec::new(), Vec::new());
+            for j in 0..n + m {
+                z[j] = Dual::variable(z0[j]);
+                block.eval_all(&z, &mut scratch, &mut stack, &mut out);
+                z[j] = Dual::fixed(z0[j]);
+                cost.runs += 1;
+                for (row, d) in jac.iter_mut().zip(&out) {
+                    row[j] = d.d;
+                }
             }
         }
-        let h = step(z0[j]);
-        let (xp, xm) = (z0[j] + h, z0[j] - h);
-        z[j] = xp;
-        block.eval(&z, &mut fp);
-        z[j] = xm;
-        block.eval(&z, &mut fm);
-        z[j] = z0[j];
-        evals += 2;
-        for i in 0..n {
-            jac[i][j] = (fp[i] - fm[i]) / (xp - xm);
+        Method::CentralDifferences => {
+            let mut z = z0.clone();
+            let mut fp = vec![0.0; n];
+            let mut fm = vec![0.0; n];
+            for j in 0..n + m {
+                if j < n && n == 1 {
+                    if let Some(s) = history.and_then(|h| slope_from_history(h, z0[0])) {
+                        jac[0][0] = s;
+                        continue;
+                    }
+                }
+                let h = step(z0[j]);
+                let (xp, xm) = (z0[j] + h, z0[j] - h);
+                z[j] = xp;
+                block.eval(&z, &mut fp);
+                z[j] = xm;
+                block.eval(&z, &mut fm);
+                z[j] = z0[j];
+                cost.evaluations += 2;
+                for i in 0..n {
+                    jac[i][j] = (fp[i] - fm[i]) / (xp - xm);
+                }
+            }
         }
     }
     // Solve J_u S = -J_p.
@@ -156,7 +242,7 @@ pub(crate) fn compute(
             });
         }
     }
-    Ok((out, evals))
+    Ok((out, cost))
 }
 
 fn layout_equations(layout: &Layout<'_>) -> Vec<usize> {

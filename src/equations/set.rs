@@ -522,6 +522,32 @@ impl Block {
         }
     }
 
+    /// Every residual, into `out`, with live values `live` of any [`Number`] kind;
+    /// `slots` and `stack` are scratch buffers (as in [`Block::eval_first`]).
+    pub fn eval_all<N: Number>(
+        &self,
+        live: &[N],
+        slots: &mut Vec<N>,
+        stack: &mut Vec<N>,
+        out: &mut Vec<N>,
+    ) {
+        slots.clear();
+        slots.extend(self.slots.iter().map(|&v| N::constant(v)));
+        stack.clear();
+        stack.resize(self.stack.len(), N::constant(0.0));
+        for (&s, &v) in self.live.iter().zip(live) {
+            slots[s] = v;
+        }
+        for (s, p) in &self.defs {
+            let v = p.run(slots, stack);
+            slots[*s] = v;
+        }
+        out.clear();
+        for p in &self.eqs {
+            out.push(p.run(slots, stack));
+        }
+    }
+
     /// The first residual with one live value.
     #[inline]
     pub fn eval_one(&mut self, x: f64) -> f64 {

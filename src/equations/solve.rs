@@ -100,8 +100,12 @@ pub struct SetSolution {
     pub definitions: Vec<(String, f64)>,
     /// d unknown / d known for every pair (empty unless asked for and converged).
     pub sensitivities: Vec<Sensitivity>,
-    /// Evaluations of the whole set made for the sensitivities, beyond the solve's.
+    /// Evaluations of the whole set at a point made for the sensitivities, beyond the
+    /// solve's: 0, since the Jacobians are taken by forward-mode differentiation.
     pub sensitivity_evaluations: usize,
+    /// Runs of the whole set with dual numbers made for the sensitivities (one per
+    /// unknown and per known; see [`super::sensitivity`]).
+    pub sensitivity_runs: usize,
     /// The blocks in the order solved.
     pub blocks: Vec<BlockReport>,
 }
@@ -358,7 +362,7 @@ pub fn solve_set(
         let (block_status, evals, iters, certificate) = if let [k] = block_unknowns.as_slice() {
             let opts = Options {
                 bounds: bounds[*k],
-                record_history: options.record_history || (sensitivities && single),
+                record_history: options.record_history,
                 ..*options
             };
             let (a, b) = starts[*k];
@@ -416,17 +420,19 @@ pub fn solve_set(
         .collect();
     // At the final values even when not converged (NaN where an unknown was not reached).
     let definitions = layout.definition_values(&values)?;
-    let (sens, sens_evals) = if sensitivities && converged {
-        let history = scalar.as_ref().map(|s| s.history.as_slice());
-        sensitivity::compute(&layout, &values, &names, &slots, knowns, history)?
+    let (sens, cost) = if sensitivities && converged {
+        sensitivity::compute(
+            &layout,
+            &values,
+            &names,
+            &slots,
+            knowns,
+            None,
+            sensitivity::Method::ForwardMode,
+        )?
     } else {
-        (Vec::new(), 0)
+        (Vec::new(), sensitivity::Cost::default())
     };
-    if let Some(s) = scalar.as_mut() {
-        if !options.record_history {
-            s.history.clear();
-        }
-    }
     Ok(SetSolution {
         unknowns: unknown_values,
         residuals,
@@ -438,7 +444,8 @@ pub fn solve_set(
         system: system_solution,
         definitions,
         sensitivities: sens,
-        sensitivity_evaluations: sens_evals,
+        sensitivity_evaluations: cost.evaluations,
+        sensitivity_runs: cost.runs,
         blocks: reports,
     })
 }

@@ -31,6 +31,7 @@ use crate::outcome::Status;
 use crate::roots_in_range::{roots_in_range, ScanOptions, MAX_SAMPLES};
 use crate::templates::{self, TemplateRequest, TemplateSolution};
 use crate::tolerances::Bounds;
+use crate::uncertainty::Distribution;
 use crate::units;
 
 pub use report::{
@@ -51,6 +52,20 @@ pub const MAX_NAME_CHARS: usize = 200;
 /// A compiled problem.
 pub struct Problem {
     kind: Kind,
+    /// The knowns that carry an uncertainty, in name order.
+    uncertain: Vec<Uncertain>,
+}
+
+/// A known's standard uncertainty, read and checked.
+#[derive(Debug, Clone, PartialEq)]
+struct Uncertain {
+    name: String,
+    /// In the known's unit (`unit`), absolute.
+    standard: f64,
+    unit: Option<String>,
+    /// SI per unit of the known (a difference: no offset).
+    factor: f64,
+    distribution: Distribution,
 }
 
 enum Kind {
@@ -83,7 +98,7 @@ fn short(text: &str, place: &str) -> Result<(), InputError> {
 impl Problem {
     /// Checks and compiles a problem. Errors name the value and the place.
     pub fn compile(spec: &ProblemSpec) -> Result<Problem, InputError> {
-        match (&spec.template, &spec.equations) {
+        let mut p = match (&spec.template, &spec.equations) {
             (Some(id), None) => Problem::template(spec, id),
             (None, Some(text)) => Problem::equations(spec, text),
             (Some(_), Some(_)) => Err(InputError::new(
@@ -94,6 +109,143 @@ impl Problem {
                 "bad-request",
                 "spec: give a template id (template) or an equation text (equations)",
             )),
+        }?;
+        p.uncertain = p.read_uncertainties(spec)?;
+        Ok(p)
+    }
+
+    /// Reads `spec.uncertainties`: each names a known, with an absolute standard
+    /// uncertainty in the known's unit or a percentage of its value as given.
+    fn read_uncertainties(&self, spec: &ProblemSpec) -> Result<Vec<Uncertain>, InputError> {
+        let Some(map) = &spec.uncertainties else {
+            return Ok(Vec::new());
+        };
+        if map.len() > crate::equations::residual::MAX_LIVE_KNOWNS {
+            return Err(InputError::new(
+                "too-many-inputs",
+                format!(
+                    "spec.uncertainties names {} knowns; the limit is {}",
+                    map.len(),
+                    crate::equations::residual::MAX_LIVE_KNOWNS
+                ),
+            ));
+        }
+        let mut out = Vec::with_capacity(map.len());
+        for (name, given) in map {
+            short(name, "a name in spec.uncertainties")?;
+            let place = format!("spec.uncertainties.{name}");
+            // The known's value as given, its unit, and SI per unit.
+            let (value, unit, factor) = self.known_as_given(spec, name, &place)?;
+            let (standard, percent, distribution) = match given {
+                spec::UncertaintyInput::Standard(u) => (Some(*u), None, None),
+                spec::UncertaintyInput::Object(o) => {
+                    (o.standard, o.percent, o.distribution.as_deref())
+                }
+            };
+            let standard = match (standard, percent) {
+                (Some(u), None) => {
+                    if !(u.is_finite() && u >= 0.0) {
+                        return Err(InputError::new(
+                            "bad-uncertainty",
+                            format!("{place} must be a finite number ≥ 0, got {u}"),
+                        ));
+                    }
+                    u
+                }
+                (None, Some(pc)) => {
+                    if !(pc.is_finite() && pc >= 0.0) {
+                        return Err(InputError::new(
+                            "bad-uncertainty",
+                            format!("{place}.percent must be a finite number ≥ 0, got {pc}"),
+                        ));
+                    }
+                    pc / 100.0 * value.abs()
+                }
+                _ => {
+                    return Err(InputError::new(
+                        "bad-uncertainty",
+                        format!(
+                        "{place}: give exactly one of standard (in the known's unit) or percent"
+                    ),
+                    ))
+                }
+            };
+            let distribution = match distribution {
+                None | Some("gaussian") => Distribution::Gaussian,
+                Some("rectangular") => Distribution::Rectangular,
+                Some(other) => {
+                    return Err(InputError::new(
+                        "bad-uncertainty",
+                        format!("{place}.distribution must be \"gaussian\" or \"rectangular\", got \"{other}\""),
+                    ))
+                }
+            };
+            out.push(Uncertain {
+                name: name.clone(),
+                standard,
+                unit,
+                factor,
+                distribution,
+            });
+        }
+        // The knowns must be variables of the one equation: checked once here.
+        let names: Vec<&str> = out.iter().map(|u| u.name.as_str()).collect();
+        self.program("an uncertainty", &names)?;
+        Ok(out)
+    }
+
+    /// A known's value as given, its unit and SI per unit (for an uncertainty).
+    fn known_as_given(
+        &self,
+        spec: &ProblemSpec,
+        name: &str,
+        place: &str,
+    ) -> Result<(f64, Option<String>, f64), InputError> {
+        match &self.kind {
+            Kind::Template(t) => {
+                let var = t.t.variable(name).ok_or_else(|| {
+                    InputError::new(
+                        "unknown-variable",
+                        format!("{place} names no variable of template {}", t.t.id),
+                    )
+                })?;
+                if var.symbol == t.unknown.symbol {
+                    return Err(InputError::new(
+                        "bad-request",
+                        format!("{place}: {name} is the unknown; uncertainties belong to knowns"),
+                    ));
+                }
+                let (value, unit) = match spec.values.as_ref().and_then(|v| v.get(name)) {
+                    Some(Known::One(q)) => (q.value(), q.unit().unwrap_or(&var.unit).to_string()),
+                    Some(Known::List(_)) => {
+                        return Err(InputError::new(
+                            "bad-request",
+                            format!(
+                                "{place}: {name} is a list; give uncertainties of single values"
+                            ),
+                        ))
+                    }
+                    None => (var.value, var.unit.clone()),
+                };
+                let row = units::unit_in(&unit, &var.dimension)
+                    .map_err(|e| InputError::new(e.code, format!("{place}: {}", e.message)))?;
+                Ok((value, Some(unit), row.factor))
+            }
+            Kind::Equations(e) => {
+                let value = e
+                    .knowns
+                    .iter()
+                    .find(|(n, _)| n == name)
+                    .map(|&(_, v)| v)
+                    .ok_or_else(|| {
+                        InputError::new(
+                            "unknown-variable",
+                            format!("{place}: {name} is not one of the knowns"),
+                        )
+                    })?;
+                let factor = e.units.unit(name).map_or(1.0, |u| u.factor);
+                Ok((value, e.unit_text.get(name).cloned(), factor))
+            }
         }
     }
 
@@ -175,6 +327,7 @@ impl Problem {
         };
         Ok(Problem {
             kind: Kind::Template(Box::new(templates::compile(&req)?)),
+            uncertain: Vec::new(),
         })
     }
 
@@ -315,6 +468,7 @@ impl Problem {
                 units: checked,
                 unit_text,
             })),
+            uncertain: Vec::new(),
         })
     }
 
@@ -369,8 +523,82 @@ impl Problem {
         })
     }
 
-    /// Solves the problem.
+    /// Solves the problem. When the spec gives `uncertainties` and the solve
+    /// converged, the report carries the one unknown's `uncertainty`, with every
+    /// Monte Carlo trial run here (see [`Problem::uncertainty`] to run them in chunks).
     pub fn solve(&self, opts: &SolveOptions) -> Result<SolveReport, InputError> {
+        let mut report = self.solve_nominal(opts)?;
+        if self.uncertain.is_empty() || !report.converged {
+            return Ok(report);
+        }
+        if let (Some(name), Some(root)) = (report.unknown.clone(), report.root_si) {
+            let mut run = self.uncertainty_at(root, opts)?;
+            run.advance(run.trials());
+            report.uncertainty.insert(name, run.report());
+        }
+        Ok(report)
+    }
+
+    /// Starts the uncertainty of the one unknown from the knowns' (`spec.uncertainties`):
+    /// solves with `opts`, applies the law of propagation at the root at once, and
+    /// leaves the Monte Carlo trials (`opts.uncertainty.trials`) to
+    /// [`UncertaintyRun::advance`], in chunks.
+    pub fn uncertainty(&self, opts: &SolveOptions) -> Result<UncertaintyRun, InputError> {
+        let report = self.solve_nominal(opts)?;
+        match (report.converged, report.root_si) {
+            (true, Some(root)) => self.uncertainty_at(root, opts),
+            _ => Err(InputError::new(
+                "not-converged",
+                format!(
+                    "the uncertainty is taken at the answer, and the solve did not converge \
+                     ({}): {}",
+                    report.status, report.message
+                ),
+            )),
+        }
+    }
+
+    fn uncertainty_at(
+        &self,
+        root_si: f64,
+        opts: &SolveOptions,
+    ) -> Result<UncertaintyRun, InputError> {
+        use crate::uncertainty::{linear, MonteCarloRun, ResidualModel, UncertainInput};
+        if self.uncertain.is_empty() {
+            return Err(InputError::new(
+                "no-uncertainties",
+                "spec.uncertainties gives no known an uncertainty",
+            ));
+        }
+        let options =
+            spec::UncertaintyOptionsInput::read(opts.uncertainty.as_ref(), "options.uncertainty")?;
+        let names: Vec<&str> = self.uncertain.iter().map(|u| u.name.as_str()).collect();
+        let (residual, conversion) = self.program("an uncertainty", &names)?;
+        let inputs: Vec<UncertainInput> = self
+            .uncertain
+            .iter()
+            .zip(residual.knowns())
+            .map(|(u, &value)| UncertainInput {
+                value,
+                standard: u.standard * u.factor,
+                distribution: u.distribution,
+            })
+            .collect();
+        let mut model = ResidualModel::new(residual, self.bounds_si());
+        let linear = linear(&mut model, &inputs, root_si, options.coverage_factor)?;
+        let run = MonteCarloRun::new(model, &inputs, root_si, &options)?;
+        Ok(UncertaintyRun {
+            run,
+            linear,
+            seed: options.seed,
+            digits: options.significant_digits,
+            conversion,
+            unit: self.unit(),
+            uncertain: self.uncertain.clone(),
+        })
+    }
+
+    fn solve_nominal(&self, opts: &SolveOptions) -> Result<SolveReport, InputError> {
         let options = opts.options("options")?;
         match &self.kind {
             Kind::Template(c) => {
@@ -528,8 +756,19 @@ impl Problem {
 
     /// Every root from `lo` to `hi` (the unknown's unit), each with its certificate and,
     /// for a template that names its branches, its label.
+    ///
+    /// With `opts.proven`, the roots are proven instead ([`Problem::proven_roots`]).
     pub fn roots(&self, lo: f64, hi: f64, opts: &RootsOptions) -> Result<RootsReport, InputError> {
         check_range(lo, hi)?;
+        if opts.proven {
+            return self.proven_roots(lo, hi, opts);
+        }
+        if opts.max_regions.is_some() {
+            return Err(InputError::new(
+                "bad-request",
+                "options.maxRegions belongs to a proven scan: add proven: true",
+            ));
+        }
         let samples = match opts.samples {
             None => ScanOptions::default().samples,
             Some(n) if n.fract() == 0.0 && (3.0..=MAX_SAMPLES as f64).contains(&n) => n as usize,
@@ -595,6 +834,165 @@ impl Problem {
             samples: found.samples,
             spacing: c.delta_from_si(found.spacing).abs(),
             limits: found.limits,
+            proven: false,
+            regions: Vec::new(),
+            proof: None,
+        })
+    }
+
+    /// The residual of the one equation as a compiled program of the one unknown in
+    /// SI, the knowns in SI, those named in `live` kept variable; and the unknown's
+    /// conversion. Refused for several unknowns or equations, and for templates that
+    /// solve auxiliary equations.
+    fn program(
+        &self,
+        what: &str,
+        live: &[&str],
+    ) -> Result<(crate::equations::Residual, Conversion), InputError> {
+        let c = self.conversion()?;
+        match &self.kind {
+            Kind::Template(t) => Ok((t.program(live)?, c)),
+            Kind::Equations(e) => {
+                let name = self.one_unknown(what)?;
+                let knowns: Vec<(String, f64)> = e
+                    .knowns
+                    .iter()
+                    .map(|(n, v)| (n.clone(), e.units.to_si(n, *v)))
+                    .collect();
+                Ok((e.set.residual(&knowns, name, live)?, c))
+            }
+        }
+    }
+
+    /// Every root from `lo` to `hi` (the unknown's unit), proven: regions covering the
+    /// range, each holding exactly one root (proven, with its enclosure), none
+    /// (proven), or undecided with the reason (see [`crate::proven_roots`]). Nothing
+    /// undecided is reported as a root. The range is converted to SI and widened by
+    /// one unit in the last place at each end, so that rounding in the conversion
+    /// loses no part of it; region ends come back in the unit (the first and last
+    /// exactly `lo` and `hi`), and each enclosure is widened outward by one unit in
+    /// the last place after its conversion so that it still holds its root.
+    pub fn proven_roots(
+        &self,
+        lo: f64,
+        hi: f64,
+        opts: &RootsOptions,
+    ) -> Result<RootsReport, InputError> {
+        use crate::proven_roots::{proven_roots, ProofOptions, RegionKind, MAX_REGIONS};
+        check_range(lo, hi)?;
+        if opts.samples.is_some() {
+            return Err(InputError::new(
+                "bad-request",
+                "options.samples belongs to the sampling scan; a proven scan takes maxRegions",
+            ));
+        }
+        let mut proof = ProofOptions::default();
+        if let Some(n) = opts.max_regions {
+            if !(n.fract() == 0.0 && (1.0..=MAX_REGIONS as f64).contains(&n)) {
+                return Err(InputError::new(
+                    "bad-budget",
+                    format!(
+                        "options.maxRegions must be a whole number from 1 to {MAX_REGIONS}, got {n}"
+                    ),
+                ));
+            }
+            proof.max_regions = n as usize;
+        }
+        if let Some(t) = &opts.tolerances {
+            let tol = spec::TolerancesInput::read(Some(t), "options.tolerances")?;
+            if t.x_rel.is_some() {
+                proof.x_rel = tol.x_rel;
+            }
+            if t.x_abs.is_some() {
+                proof.x_abs = tol.x_abs;
+            }
+        }
+        let (mut f, c) = self.program("proven roots", &[])?;
+        let (a, b) = (c.to_si(lo), c.to_si(hi));
+        let (a, b) = (a.min(b).next_down(), a.max(b).next_up());
+        if !(a.is_finite() && b.is_finite()) {
+            return Err(InputError::new(
+                "bad-range",
+                format!("the range [{lo}, {hi}] is too large once in SI units"),
+            ));
+        }
+        let found = proven_roots(a, b, &proof, &mut f)?;
+        let clamp = |x: f64| c.from_si(x).clamp(lo, hi);
+        let unique: Vec<f64> = found.roots().filter_map(|g| g.root).collect();
+        let labels = match &self.kind {
+            Kind::Template(t) => t.label_roots(&unique),
+            Kind::Equations(_) => vec![None; unique.len()],
+        };
+        let mut labels = labels.into_iter();
+        let n = found.regions.len();
+        let mut regions = Vec::with_capacity(n);
+        let mut roots = Vec::new();
+        for (i, g) in found.regions.iter().enumerate() {
+            let enclosure = g.enclosure.map(|e| {
+                let (p, q) = (c.from_si(e.lo), c.from_si(e.hi));
+                [p.min(q).next_down(), p.max(q).next_up()]
+            });
+            let label = if g.kind == RegionKind::Unique {
+                labels.next().flatten()
+            } else {
+                None
+            };
+            let root = g.root.map(|x| c.from_si(x));
+            let region = report::RegionReport {
+                kind: g.kind.code(),
+                lo: if i == 0 { lo } else { clamp(g.lo) },
+                hi: if i + 1 == n { hi } else { clamp(g.hi) },
+                root,
+                enclosure,
+                residual: g.residual,
+                label: label.clone(),
+                why: g.why.map(|w| w.code()),
+                explanation: g.why.map(|w| w.explain()),
+            };
+            if let (Some(x), Some([p, q])) = (root, enclosure) {
+                let fx = g.residual.unwrap_or(f64::NAN);
+                roots.push(RangeRootReport {
+                    x,
+                    fx,
+                    kind: "proven",
+                    converged: true,
+                    certificate: Some(CertificateReport::proof(fx, [p, q])),
+                    label,
+                });
+            }
+            regions.push(region);
+        }
+        let undecided = found
+            .regions
+            .iter()
+            .filter(|g| g.kind == RegionKind::Undecided)
+            .count();
+        Ok(RootsReport {
+            unit: self.unit(),
+            roots,
+            discontinuities: Vec::new(),
+            evaluations: found.evaluations(),
+            samples: 0,
+            spacing: 0.0,
+            limits: if undecided == 0 {
+                "every root in the range is proven: each unique region holds exactly one, \
+                 every other region none"
+                    .to_string()
+            } else {
+                format!(
+                    "{undecided} region{} undecided (see why): a root there is neither \
+                     proven nor excluded; the unique roots are proven",
+                    if undecided == 1 { " is" } else { "s are" }
+                )
+            },
+            proven: true,
+            regions,
+            proof: Some(report::ProofCostReport {
+                regions_examined: found.regions_examined,
+                narrowing_slopes: found.narrowing_slopes,
+                point_enclosures: found.point_enclosures,
+                point_values: found.point_values,
+            }),
         })
     }
 
@@ -678,6 +1076,7 @@ fn set_report(s: &SetSolution, c: &Conversion, cert: &Conversion) -> SolveReport
             })
             .collect(),
         sensitivity_evaluations: s.sensitivity_evaluations,
+        sensitivity_runs: s.sensitivity_runs,
         blocks: s
             .blocks
             .iter()
@@ -879,6 +1278,120 @@ impl<'p> Sweep<'p> {
 
     pub fn report(&self) -> &SweepReport {
         &self.report
+    }
+}
+
+/// The uncertainty of a problem's one unknown in progress: the law of propagation
+/// done, the Monte Carlo trials run in chunks with [`UncertaintyRun::advance`] so that
+/// a page can show progress and cancel (as [`Sweep`]). Its work is bounded by
+/// `uncertainty::MAX_TRIALS` trials; the values kept for the coverage interval take
+/// 8 bytes a trial.
+pub struct UncertaintyRun {
+    run: crate::uncertainty::MonteCarloRun<crate::uncertainty::ResidualModel>,
+    /// In SI.
+    linear: crate::uncertainty::LinearPropagation,
+    seed: u64,
+    digits: u32,
+    conversion: Conversion,
+    unit: Option<String>,
+    uncertain: Vec<Uncertain>,
+}
+
+impl UncertaintyRun {
+    /// Runs up to `chunk` more trials (at least one while any are left); the trials
+    /// done so far.
+    pub fn advance(&mut self, chunk: usize) -> usize {
+        self.run.advance(chunk)
+    }
+
+    pub fn done(&self) -> usize {
+        self.run.done()
+    }
+
+    /// The trials asked for.
+    pub fn trials(&self) -> usize {
+        self.run.trials()
+    }
+
+    pub fn is_done(&self) -> bool {
+        self.run.is_done()
+    }
+
+    /// The result in the unknown's unit: the law of propagation at once; the Monte
+    /// Carlo result and the JCGM 101 §8 validation once every trial is done.
+    pub fn report(&self) -> report::UncertaintyReport {
+        use crate::uncertainty::{validate, LinearPropagation, MonteCarlo};
+        let c = &self.conversion;
+        let l = &self.linear;
+        let linear = LinearPropagation {
+            value: c.from_si(l.value),
+            sensitivities: l
+                .sensitivities
+                .iter()
+                .zip(&self.uncertain)
+                .map(|(s, u)| s * u.factor / c.factor)
+                .collect(),
+            contributions: l
+                .contributions
+                .iter()
+                .map(|v| c.delta_from_si(*v))
+                .collect(),
+            standard: c.delta_from_si(l.standard),
+            coverage_factor: l.coverage_factor,
+            expanded: c.delta_from_si(l.expanded),
+        };
+        let mc = (self.run.trials() > 0 && self.run.is_done()).then(|| {
+            let m = self.run.finish();
+            MonteCarlo {
+                mean: c.from_si(m.mean),
+                standard: c.delta_from_si(m.standard),
+                interval: (c.from_si(m.interval.0), c.from_si(m.interval.1)),
+                ..m
+            }
+        });
+        let validation = mc.as_ref().and_then(|m| validate(&linear, m, self.digits));
+        report::UncertaintyReport {
+            unit: self.unit.clone(),
+            value: linear.value,
+            standard: linear.standard,
+            expanded: linear.expanded,
+            coverage_factor: linear.coverage_factor,
+            contributions: self
+                .uncertain
+                .iter()
+                .zip(linear.sensitivities.iter().zip(&linear.contributions))
+                .map(
+                    |(u, (&sensitivity, &contribution))| report::ContributionReport {
+                        input: u.name.clone(),
+                        standard: u.standard,
+                        input_unit: u.unit.clone(),
+                        distribution: match u.distribution {
+                            Distribution::Gaussian => "gaussian",
+                            Distribution::Rectangular => "rectangular",
+                        },
+                        sensitivity,
+                        contribution,
+                    },
+                )
+                .collect(),
+            monte_carlo: mc.as_ref().map(|m| report::MonteCarloReport {
+                trials: m.trials,
+                failed: m.failed,
+                interval: [m.interval.0, m.interval.1],
+                mean: m.mean,
+                standard: m.standard,
+                seed: self.seed,
+                evaluations: m.evaluations,
+            }),
+            validation: validation.map(|v| report::ValidationReport {
+                agrees: v.agrees,
+                tolerance: v.tolerance,
+                gum_interval: [v.gum_interval.0, v.gum_interval.1],
+                d_low: v.d_low,
+                d_high: v.d_high,
+                message: v.message,
+            }),
+        }
     }
 }
 

@@ -73,6 +73,22 @@ impl CertificateReport {
         }
     }
 
+    /// A proven root: the interval Newton enclosure `[lo, hi]` (in the caller's unit)
+    /// holds exactly one root, and f there in floating point is `residual`.
+    pub fn proof(residual: f64, enclosure: [f64; 2]) -> CertificateReport {
+        CertificateReport {
+            kind: "interval-newton",
+            explanation: "interval arithmetic with outward rounding proves that f has \
+                          exactly one root in this enclosure: f′ keeps one sign over its \
+                          region and f changes sign across it (or is exactly 0 at its end)",
+            residual: residual.abs(),
+            bound: 0.0,
+            bracket: Some(enclosure),
+            width: enclosure[1] - enclosure[0],
+            reference: None,
+        }
+    }
+
     /// A system's certificate (no x of a single unknown to convert).
     pub fn system(cert: &Certificate) -> CertificateReport {
         CertificateReport {
@@ -201,7 +217,11 @@ pub struct SolveReport {
     pub system_history: Vec<SystemHistoryReport>,
     pub definitions: BTreeMap<String, f64>,
     pub sensitivities: Vec<SensitivityReport>,
+    /// Evaluations of f at a point made for the sensitivities (0: they are taken by
+    /// forward-mode differentiation of the compiled equations).
     pub sensitivity_evaluations: usize,
+    /// Runs of the equations with dual numbers made for the sensitivities.
+    pub sensitivity_runs: usize,
     pub blocks: Vec<BlockReport>,
     /// A template's branch label of the answer.
     pub branch: Option<String>,
@@ -211,6 +231,76 @@ pub struct SolveReport {
     pub notes: Vec<String>,
     pub caution: Option<String>,
     pub outputs: Vec<OutputReport>,
+    /// Per unknown, its uncertainty from the knowns' (when the spec gives
+    /// `uncertainties` and the solve converged), in the unknown's unit.
+    pub uncertainty: BTreeMap<String, UncertaintyReport>,
+}
+
+/// The uncertainty of an unknown, in its unit: the law of propagation (JCGM 100:2008,
+/// eq. 10) and the Monte Carlo check (JCGM 101:2008) with the validation of its §8.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct UncertaintyReport {
+    pub unit: Option<String>,
+    /// The value the propagation is about (the root).
+    pub value: f64,
+    /// Combined standard uncertainty u_c.
+    pub standard: f64,
+    /// U = k·u_c.
+    pub expanded: f64,
+    pub coverage_factor: f64,
+    /// Each uncertain known's share.
+    pub contributions: Vec<ContributionReport>,
+    /// Absent with `trials: 0`, or while a chunked run is not finished.
+    pub monte_carlo: Option<MonteCarloReport>,
+    pub validation: Option<ValidationReport>,
+}
+
+/// One known's part in the uncertainty of the answer.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct ContributionReport {
+    pub input: String,
+    /// The known's standard uncertainty in the known's unit.
+    pub standard: f64,
+    /// The unit of `standard` (absent with no unit).
+    pub input_unit: Option<String>,
+    /// `"gaussian"` or `"rectangular"`.
+    pub distribution: &'static str,
+    /// ∂x/∂k in the unknown's unit per the known's unit.
+    pub sensitivity: f64,
+    /// |∂x/∂k|·u(k), in the unknown's unit.
+    pub contribution: f64,
+}
+
+/// The Monte Carlo result, in the unknown's unit.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct MonteCarloReport {
+    pub trials: usize,
+    /// Trials in which no root was found (left out of the statistics).
+    pub failed: usize,
+    /// The 95 % probabilistically symmetric coverage interval (JCGM 101 §7.7).
+    pub interval: [f64; 2],
+    pub mean: f64,
+    pub standard: f64,
+    pub seed: u64,
+    /// Evaluations of f of every kind over all trials.
+    pub evaluations: usize,
+}
+
+/// JCGM 101 §8: whether the law of propagation is validated by the Monte Carlo result.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct ValidationReport {
+    pub agrees: bool,
+    /// δ, the numerical tolerance of u_c, in the unknown's unit.
+    pub tolerance: f64,
+    /// x ± k₉₅·u_c.
+    pub gum_interval: [f64; 2],
+    pub d_low: f64,
+    pub d_high: f64,
+    pub message: String,
 }
 
 /// One root found in a range.
@@ -231,12 +321,58 @@ pub struct RangeRootReport {
 #[serde(rename_all = "camelCase")]
 pub struct RootsReport {
     pub unit: Option<String>,
+    /// The roots found; with `proven`, exactly the proven unique roots (kind
+    /// `"proven"`, the certificate of kind `"interval-newton"` with the enclosure as
+    /// its bracket).
     pub roots: Vec<RangeRootReport>,
     pub discontinuities: Vec<[f64; 2]>,
+    /// Evaluations of f of every kind (with `proven`: enclosures over regions and at
+    /// points, and point values).
     pub evaluations: usize,
     pub samples: usize,
     pub spacing: f64,
     pub limits: String,
+    /// Whether the roots were proven (`regions` then covers the range).
+    pub proven: bool,
+    /// With `proven`: the regions, in order, covering the whole range.
+    pub regions: Vec<RegionReport>,
+    /// With `proven`: what the proof cost.
+    pub proof: Option<ProofCostReport>,
+}
+
+/// One region of a proven scan, x in the unknown's unit.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct RegionReport {
+    /// `"unique"`, `"none"` or `"undecided"`.
+    pub kind: &'static str,
+    pub lo: f64,
+    pub hi: f64,
+    /// For `unique`: the middle of the enclosure ...
+    pub root: Option<f64>,
+    /// ... the enclosure, proven to hold the one root of the region ...
+    pub enclosure: Option<[f64; 2]>,
+    /// ... f at `root` in floating point, and the template's branch label.
+    pub residual: Option<f64>,
+    pub label: Option<String>,
+    /// For `undecided`: why (`pole`, `undefined`, `jump`, `multiple-or-flat`,
+    /// `root-at-edge`, `budget`), and in plain words.
+    pub why: Option<&'static str>,
+    pub explanation: Option<&'static str>,
+}
+
+/// The work of a proven scan.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct ProofCostReport {
+    /// Enclosures of f and f′ over a region.
+    pub regions_examined: usize,
+    /// Enclosures of f and f′ while narrowing a root's enclosure.
+    pub narrowing_slopes: usize,
+    /// Enclosures of f at a point.
+    pub point_enclosures: usize,
+    /// Values of f at a point (one per root).
+    pub point_values: usize,
 }
 
 /// f sampled over a range: `x` in the unknown's unit.

@@ -171,6 +171,99 @@ pub struct ProblemSpec {
     /// Fill knowns not given from the demo scenario (templates only).
     #[serde(default)]
     pub use_scenario_defaults: bool,
+    /// Standard uncertainties of knowns (template values or equation knowns): a
+    /// number in the same unit as the known's value, or `{percent}` of the value as
+    /// given; see [`UncertaintyInput`].
+    #[serde(default)]
+    pub uncertainties: Option<BTreeMap<String, UncertaintyInput>>,
+}
+
+/// A known's standard uncertainty: a number (in the same unit as the known's value;
+/// for a temperature reading such as °C, a difference in that unit), or
+/// `{standard?, percent?, distribution?}` with exactly one of `standard` (as the
+/// number) or `percent` (of the value as given, in its unit: `{percent: 30}` is
+/// ±30 %), and the distribution of the Monte Carlo draws: `"gaussian"` (default;
+/// JCGM 101 §6.4.7) or `"rectangular"` (the same standard deviation, JCGM 101
+/// §6.4.2).
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(
+    untagged,
+    expecting = "a standard uncertainty (a number in the known's unit) or {standard?, percent?, distribution?}"
+)]
+pub enum UncertaintyInput {
+    Standard(f64),
+    Object(UncertaintyObject),
+}
+
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct UncertaintyObject {
+    #[serde(default)]
+    pub standard: Option<f64>,
+    #[serde(default)]
+    pub percent: Option<f64>,
+    #[serde(default)]
+    pub distribution: Option<String>,
+}
+
+/// How the uncertainty of a solve is computed. Omitted fields keep their defaults.
+#[derive(Debug, Clone, PartialEq, Default, Deserialize)]
+#[serde(deny_unknown_fields, rename_all = "camelCase")]
+pub struct UncertaintyOptionsInput {
+    /// The coverage factor of the expanded uncertainty (default 2).
+    #[serde(default)]
+    pub coverage_factor: Option<f64>,
+    /// Monte Carlo trials (default 100 000; 0 for none; at most
+    /// [`crate::uncertainty::MAX_TRIALS`]).
+    #[serde(default)]
+    pub trials: Option<f64>,
+    /// Seed of the random numbers (default 1; a whole number from 0 to 2^53).
+    #[serde(default)]
+    pub seed: Option<f64>,
+}
+
+impl UncertaintyOptionsInput {
+    /// The core's options, checked.
+    pub fn read(
+        input: Option<&UncertaintyOptionsInput>,
+        place: &str,
+    ) -> Result<crate::uncertainty::UncertaintyOptions, InputError> {
+        use crate::uncertainty::{UncertaintyOptions, MAX_TRIALS};
+        let mut o = UncertaintyOptions::default();
+        let Some(i) = input else {
+            return Ok(o);
+        };
+        if let Some(k) = i.coverage_factor {
+            if !(k.is_finite() && k > 0.0) {
+                return Err(InputError::new(
+                    "bad-coverage-factor",
+                    format!("{place}.coverageFactor must be a finite number above 0, got {k}"),
+                ));
+            }
+            o.coverage_factor = k;
+        }
+        if let Some(n) = i.trials {
+            if !(n.fract() == 0.0 && (0.0..=MAX_TRIALS as f64).contains(&n)) {
+                return Err(InputError::new(
+                    "too-many-trials",
+                    format!(
+                        "{place}.trials must be a whole number from 0 to {MAX_TRIALS}, got {n}"
+                    ),
+                ));
+            }
+            o.trials = n as usize;
+        }
+        if let Some(seed) = i.seed {
+            if !(seed.fract() == 0.0 && (0.0..=9_007_199_254_740_992.0).contains(&seed)) {
+                return Err(InputError::new(
+                    "bad-seed",
+                    format!("{place}.seed must be a whole number from 0 to 2^53, got {seed}"),
+                ));
+            }
+            o.seed = seed as u64;
+        }
+        Ok(o)
+    }
 }
 
 /// How to solve. Omitted fields keep their defaults.
@@ -188,6 +281,9 @@ pub struct SolveOptions {
     pub history: bool,
     #[serde(default)]
     pub sensitivities: bool,
+    /// How the uncertainty is computed when the problem's knowns carry uncertainties.
+    #[serde(default)]
+    pub uncertainty: Option<UncertaintyOptionsInput>,
 }
 
 /// Tolerances as sent; see [`Tolerances`] for the meaning and defaults.
@@ -266,6 +362,16 @@ pub struct RootsOptions {
     pub samples: Option<f64>,
     #[serde(default)]
     pub tolerances: Option<TolerancesInput>,
+    /// Prove the roots: regions covering the range, each `unique` (a root proven, with
+    /// its enclosure), `none` (proven) or `undecided` (with why), by interval Newton
+    /// with bisection ([`crate::proven_roots`]) instead of the sampling scan. Regions
+    /// are not split below `xAbs + xRel·|x|` of the tolerances (in SI).
+    #[serde(default)]
+    pub proven: bool,
+    /// With `proven`: regions examined at most (default 20 000, at most
+    /// [`crate::proven_roots::MAX_REGIONS`]).
+    #[serde(default)]
+    pub max_regions: Option<f64>,
 }
 
 /// A sweep: the unknown solved at `points` evenly spaced values of the known `input`

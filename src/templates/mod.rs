@@ -46,6 +46,7 @@ use crate::outcome::Status;
 use crate::tolerances::Bounds;
 use crate::units;
 
+pub mod own;
 mod roots;
 
 /// The standard caution shown with safety-related results.
@@ -974,6 +975,28 @@ impl Compiled {
         Ok(Box::new(move |x| {
             nested.at(x, &self.set_knowns, &self.specs, &self.req.options)
         }))
+    }
+
+    /// The main equation as a compiled program of the unknown in SI, the knowns named
+    /// in `live` kept variable (see [`crate::equations::Residual`]): for interval and
+    /// dual evaluation. Refused for a template that solves auxiliary equations with its
+    /// unknown, whose residual is a nested solve and no program.
+    pub fn program(&self, live: &[&str]) -> Result<crate::equations::Residual, InputError> {
+        if !self.t.auxiliary.is_empty() {
+            let names: Vec<&str> = self.t.auxiliary.iter().map(|a| a.symbol.as_str()).collect();
+            return Err(InputError::new(
+                "needs-one-equation",
+                format!(
+                    "template {} solves its auxiliary unknowns ({}) together with {}; \
+                     proven roots and uncertainties need one equation in one unknown",
+                    self.t.id,
+                    names.join(", "),
+                    self.unknown.symbol
+                ),
+            ));
+        }
+        self.set
+            .residual(&self.set_knowns, &self.unknown.symbol, live)
     }
 
     /// The branch labels of roots at `xs` (SI, sorted), where the template names them.
