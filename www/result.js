@@ -6,7 +6,7 @@
 import { h, clear, byId } from './dom.js';
 import { fmt, full, prettyUnit } from './format.js';
 import { symbolMathML } from './mathml.js';
-import { app, probe, hooks, currentTemplate, unknownList, meaningOf } from './ctx.js';
+import { app, probe, hooks, currentTemplate, currentVariables, unknownList, variableOf, chosenUnit, meaningOf } from './ctx.js';
 import { convert, siToResultUnit, convertHistory, sampleCurve } from './solver.js';
 import { settingsFacts } from './request.js';
 import { updateAnswerLines } from './setup.js';
@@ -25,7 +25,7 @@ const CERT_WORDS = {
 /** The evidence of convergence in plain words. */
 export function certificateWords(c) {
   const why = CERT_WORDS[c.kind] ?? c.explanation;
-  return c.kind === 'exact-zero' ? why : `${why} At the answer |residual| = ${fmt(c.residual, 2)}, within the ${fmt(c.bound, 2)} the check required.`;
+  return c.kind === 'exact-zero' ? why : `${why} At the answer |residual| = ${fmt(c.residual, 2)} (the check allows at most ${fmt(c.bound, 2)} here).`;
 }
 
 const FAILURE_WORDS = {
@@ -136,6 +136,10 @@ function unitChoices(o) {
 function outputUnit(o, choices) {
   const picked = app.outputUnits?.[o.symbol];
   if (picked && choices.includes(picked)) return picked;
+  // The unit the user chose for a quantity of the same kind: the answer's first, then an input's.
+  const same = [...unknownList(), ...currentVariables().map((v) => v.symbol)].map(variableOf).find((v) => v?.dimension === o.dimension);
+  const theirs = same && chosenUnit(same.symbol);
+  if (theirs && choices.includes(theirs)) return theirs;
   const usInputs = Object.values(app.S.values).some((e) => US.test(e.u ?? ''));
   if (!usInputs || US.test(o.unit) || o.unit === '1') return o.unit;
   // Feet before inches and miles: the usual choice for heads, speeds and areas.

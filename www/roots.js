@@ -14,7 +14,8 @@ export function showRootsCard(built, r) {
   const root = built.kind === 'template' ? r.value : r.root;
   const unit = prettyUnit(r.unit);
   if (!byId('roots-lo').value && !byId('roots-hi').value && Number.isFinite(root)) {
-    const span = Math.abs(root) || 1;
+    // A failed solve's estimate may sit anywhere: offer a wider range around it.
+    const span = r.converged ? Math.abs(root) || 1 : Math.max(Math.abs(root), 1);
     byId('roots-lo').value = full(Number((root - span).toPrecision(3)));
     byId('roots-hi').value = full(Number((root + span).toPrecision(3)));
   }

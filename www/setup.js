@@ -37,6 +37,7 @@ export function renderSetup() {
   app.nav?.select(S.mode === 'template' ? S.template : null);
   const caution = byId('caution');
   const notes = clear(byId('notes'));
+  delete byId('calc-summary').dataset.screen;
   byId('calc-source').textContent = '';
   caution.hidden = true;
   if (S.mode === 'template' && t) {
@@ -52,6 +53,7 @@ export function renderSetup() {
     byId('calc-field').textContent = 'Own equations';
     byId('calc-title').textContent = 'Your equations';
     byId('calc-summary').textContent = 'Write an equation or a set in the equation language; the check below points at any error as you type. Values have no units here: use one consistent set.';
+    byId('calc-summary').dataset.screen = 'true';
     if (byId('custom-text').value !== S.equations) byId('custom-text').value = S.equations;
     runCustomCheck();
   } else if (S.mode === 'external') {
