@@ -14,7 +14,8 @@ import { loadSaved, exportText, loadExternal } from './storage.js';
 import { wasmBytes } from './wasm-bytes.js';
 import { solveBuilt } from './solver.js';
 import { buildRequest } from './request.js';
-import { renderSetup, renderVarsTable, renderStart, runCustomCheck } from './setup.js';
+import { renderSetup, renderVarsTable, renderStart, showEquation } from './setup.js';
+import { runCustomCheck } from './custom.js';
 import { presentResult, hideResults, markStale } from './result.js';
 import { showRootsCard, openRoots, scanRoots } from './roots.js';
 import { startWorker, renderSweepInputs, runSweep, cancelSweep, sweepCsv, showSweepPage } from './sweep.js';
@@ -120,7 +121,7 @@ function wire() {
     S().equations = v;
     clearTimeout(checkTimer);
     checkTimer = setTimeout(() => {
-      runCustomCheck();
+      runCustomCheck(showEquation);
       renderVarsTable();
       renderStart();
       renderSweepInputs();

@@ -115,7 +115,7 @@ export function showResult(r, view) {
   if (defs.length) {
     const tb = h('tbody');
     for (const [name, v] of defs) tb.append(h('tr', null, h('td', null, symbolMathML(name)), h('td', { class: 'mono', title: full(v) }, fmt(v, 6))));
-    body.append(h('div', { class: 'table-wrap' }, h('table', { class: 'numbers' }, h('caption', null, 'Intermediate quantities at the solution, in the units of your equations'), tb)));
+    body.append(h('div', { class: 'table-wrap', tabindex: '0', role: 'region', 'aria-label': 'Intermediate quantities (scrolls sideways on a narrow screen)' }, h('table', { class: 'numbers' }, h('caption', null, 'Intermediate quantities at the solution, in the units of your equations'), tb)));
   }
   if (view.notes?.length) body.append(h('h3', null, 'Notes on this result'), h('ul', { class: 'notes' }, view.notes.map((n) => h('li', null, n))));
   if (view.caution) body.append(h('p', { class: 'caution', role: 'note' }, view.caution));
@@ -171,7 +171,7 @@ function outputsTable(outputs) {
     }
     tb.append(h('tr', null, h('td', null, symbolMathML(o.symbol)), h('td', null, o.meaning ?? ''), cell, h('td', null, unitCell)));
   }
-  return h('div', { class: 'table-wrap' }, h('table', { class: 'numbers outputs' }, h('caption', null, 'Other quantities at the solution'), tb));
+  return h('div', { class: 'table-wrap', tabindex: '0', role: 'region', 'aria-label': 'Other quantities (scrolls sideways on a narrow screen)' }, h('table', { class: 'numbers outputs' }, h('caption', null, 'Other quantities at the solution'), tb));
 }
 
 /** Shows a solve of the built request: result, history, sensitivities, roots. */

@@ -51,7 +51,7 @@ export function showSensitivities(sens, meaning) {
     ? `Change of each unknown in percent per 1 % change of each input, at the solution`
     : `Change of ${unknowns[0]} in percent per 1 % change of each input, at the solution`;
   body.append(
-    h('div', { class: 'table-wrap' },
+    h('div', { class: 'table-wrap', tabindex: '0', role: 'region', 'aria-label': 'Sensitivities (scrolls sideways on a narrow screen)' },
       h('table', { class: 'sens' },
         h('caption', null, caption),
         h('thead', null, h('tr', null,

@@ -5,10 +5,11 @@ import { h, clear, byId } from './dom.js';
 import { fmt, prettyUnit } from './format.js';
 import { equationToMathML, symbolMathML } from './mathml.js';
 import { app, hooks, currentTemplate, currentVariables, unknownList, variableOf, chosenUnit, edited } from './ctx.js';
-import { checkEquation, guessesIn } from './solver.js';
+import { guessesIn } from './solver.js';
+import { runCustomCheck } from './custom.js';
 import { startKind } from './request.js';
 
-function showEquation(text) {
+export function showEquation(text) {
   const box = clear(byId('equation'));
   const written = byId('equation-text');
   written.textContent = text;
@@ -55,7 +56,7 @@ export function renderSetup() {
     byId('calc-summary').textContent = 'Write an equation or a set in the equation language; the check below points at any error as you type. Values have no units here: use one consistent set.';
     byId('calc-summary').dataset.screen = 'true';
     if (byId('custom-text').value !== S.equations) byId('custom-text').value = S.equations;
-    runCustomCheck();
+    runCustomCheck(showEquation);
   } else if (S.mode === 'external') {
     byId('calc-field').textContent = 'Outside model';
     byId('calc-title').textContent = S.external.label || 'Evaluation by hand';
@@ -263,45 +264,4 @@ export function renderStart() {
   else if (kind === 'bracket') hint = `Two values of ${sym} where f has opposite signs.`;
   else hint = `Two different values of ${sym}${inUnit ? `, in${inUnit}` : ''}; no sign change is needed.`;
   byId('start-hint').textContent = hint;
-}
-
-export function runCustomCheck() {
-  const text = app.S.equations;
-  const out = clear(byId('custom-check'));
-  const ta = byId('custom-text');
-  if (!text.trim()) {
-    app.customCheck = null;
-    out.className = 'check';
-    out.textContent = 'Type an equation, for example  x^3 - 2*x = 5  or  q = sqrt(2*g*h)*A';
-    ta.removeAttribute('aria-invalid');
-    showEquation('');
-    return;
-  }
-  const c = checkEquation(text);
-  app.customCheck = c;
-  if (c.ok) {
-    ta.removeAttribute('aria-invalid');
-    out.className = 'check ok';
-    out.textContent = `Reads correctly: ${c.equations} equation${c.equations === 1 ? '' : 's'}, variables ${c.variables.join(', ') || '(none)'}${c.definitions.length ? `; defined: ${c.definitions.join(', ')}` : ''}.`;
-    showEquation(text);
-    const vars = c.variables;
-    const keep = unknownList().filter((u) => vars.includes(u));
-    if (keep.length === 0 && vars.length) app.S.unknown = vars[vars.length - 1];
-    else app.S.unknown = keep.slice(0, Math.max(1, c.equations)).join(',');
-  } else {
-    ta.setAttribute('aria-invalid', 'true');
-    out.className = 'check';
-    out.append(h('p', { class: 'error-text' }, c.message));
-    if (c.caret) out.append(h('pre', { class: 'caret', 'aria-label': 'Where the problem is' }, c.caret));
-    else if (c.position !== null && c.position !== undefined) out.append(h('pre', { class: 'caret' }, caretFor(text, c.position)));
-  }
-}
-
-function caretFor(text, pos) {
-  const chars = [...text];
-  let start = pos;
-  while (start > 0 && chars[start - 1] !== '\n') start--;
-  let end = pos;
-  while (end < chars.length && chars[end] !== '\n') end++;
-  return `${chars.slice(start, end).join('')}\n${' '.repeat(pos - start)}^`;
 }
