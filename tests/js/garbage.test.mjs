@@ -301,15 +301,15 @@ test("the raw wasm-bindgen exports never trap either", () => {
     }
     survive("StepperHandle.create", () => core.StepperHandle.create(g), { tacitOnly: false });
     survive("StepperHandle.restore", () => core.StepperHandle.restore(g), { tacitOnly: false });
-    const h = core.StepperHandle.create('{"guesses":[1,2]}');
+    const h = core.StepperHandle.create({ guesses: [1, 2] });
     survive("StepperHandle.tell", () => h.tell(g), { tacitOnly: false });
     h.free();
     survive("freed handle", () => h.next(), { tacitOnly: false });
   }
   survive("a raw callback that throws", () => core.findRootsFunction(() => {
     throw new Error("x");
-  }, '{"range":[0,1]}'), { tacitOnly: false });
-  survive("a raw system callback that returns a plain array", () => core.solveSystemFunction(() => [0, 0], '{"x0":[1,2]}'), { tacitOnly: false });
+  }, { range: [0, 1] }), { tacitOnly: false });
+  survive("a raw system callback that returns a plain array", () => core.solveSystemFunction(() => [0, 0], { x0: [1, 2] }), { tacitOnly: false });
   assert.equal(core.lastPanic(), undefined, "no panic happened");
   assertStillSolves();
 });
