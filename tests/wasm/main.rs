@@ -204,7 +204,7 @@ fn stepper_save_restore_in_wasm() {
 fn wallis_cubic_in_wasm() {
     // Wallis's cubic x³ − 2x − 5 = 0 has its real root at 2.0945514815423265 (a classic
     // test equation; value recalled from memory). tests/api.rs checks the same natively.
-    let out = b::solve_equation(s(
+    let out = b::solve_equation(o(
         r#"{"equations":"x^3 - 2*x - 5","unknowns":[{"name":"x","guesses":[2,3]}]}"#,
     ))
     .unwrap();
