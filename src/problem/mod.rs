@@ -772,13 +772,21 @@ impl<'p> Sweep<'p> {
                         "sweep.input is the unknown itself; sweep one of the knowns",
                     ));
                 }
-                let row = units::unit_in(&var.unit, &var.dimension)?;
+                // from and to are in the unit the input was given in (its default
+                // unit when it was not given).
+                let unit = t
+                    .req
+                    .values
+                    .iter()
+                    .find(|(s, _, _)| s == &spec.input)
+                    .map_or_else(|| var.unit.clone(), |(_, _, u)| u.clone());
+                let row = units::unit_in(&unit, &var.dimension)?;
                 (
                     Conversion {
                         factor: row.factor,
                         offset: row.offset,
                     },
-                    Some(var.unit.clone()),
+                    Some(unit),
                 )
             }
             Kind::Equations(e) => {
