@@ -148,14 +148,16 @@ fn read<T: serde::de::DeserializeOwned>(value: JsValue, what: &str) -> Result<T,
             format!("{what} must be an object, got {got}"),
         )));
     }
+    strict::TEXT_LEFT.with(|left| left.set(crate::api::MAX_REQUEST_BYTES));
     crate::problem::spec::read(what, strict::JsReader(value)).map_err(to_js)
 }
 
 /// A serde reader of JavaScript values for requests. serde-wasm-bindgen's reader reads
 /// only the fields a struct declares (its issue 39), so `deny_unknown_fields` could not
 /// refuse a misspelt option; this one hands every own key of an object to serde, reads
-/// numbers as numbers (NaN and ±Infinity included), refuses strings longer than
-/// `MAX_REQUEST_BYTES` before copying them, and walks a value only as deep as the
+/// numbers as numbers (NaN and ±Infinity included), copies at most `MAX_REQUEST_BYTES`
+/// characters of text out of one request (counted before each copy, so that one long
+/// string shared by many fields cannot fill the memory), and walks a value only as deep as the
 /// request's types go (skipped values are not walked at all).
 mod strict {
     use js_sys::{Array, JsString, Reflect};
@@ -207,6 +209,11 @@ mod strict {
 
     pub struct JsReader(pub JsValue);
 
+    thread_local! {
+        /// Characters of text the request being read may still copy.
+        pub static TEXT_LEFT: std::cell::Cell<usize> = const { std::cell::Cell::new(0) };
+    }
+
     fn unexpected(v: &JsValue) -> de::Unexpected<'static> {
         if v.is_null() || v.is_undefined() {
             de::Unexpected::Unit
@@ -235,12 +242,14 @@ mod strict {
             }
             if let Some(s) = v.dyn_ref::<JsString>() {
                 let n = s.length() as usize;
-                if n > crate::api::MAX_REQUEST_BYTES {
+                let left = TEXT_LEFT.with(|l| l.get());
+                if n > left {
                     return Err(Error(format!(
-                        "a text of {n} characters; the limit is {}",
+                        "a text of {n} characters, beyond the limit of {} characters of text in one request",
                         crate::api::MAX_REQUEST_BYTES
                     )));
                 }
+                TEXT_LEFT.with(|l| l.set(left - n));
                 return match s.as_string() {
                     Some(text) => visitor.visit_string(text),
                     None => Err(Error("a text that is not valid Unicode".into())),
