@@ -352,7 +352,6 @@ function readKnowns() {
   return out;
 }
 
-const asUnit = (u) => (typeof u === 'string' && u ? u : undefined);
 
 function readList(t) {
   const text = app.S.values[t.list.symbol]?.v ?? byId('list-text').value;
@@ -391,12 +390,13 @@ function buildRequest() {
     if (!t) throw new FormError('Choose a template from the catalogue first.');
     if (!S.unknown) throw new FormError('Mark which quantity to find.');
     const unitSel = document.getElementById(`unit-${S.unknown}`);
-    // The array form of values, which also carries a list input as repeated entries.
-    const values = Object.entries(readKnowns()).map(([symbol, { value, unit }]) => ({ symbol, value, unit }));
-    if (t.list) for (const value of readList(t)) values.push({ symbol: t.list.symbol, value, unit: asUnit(t.list.unit) });
-    const req = { id: t.id, values, unknown: S.unknown, history: true, sensitivities: true, ...base };
-    if (unitSel) req.resultUnit = unitSel.value;
-    return { kind: 'template', req };
+    // Every known with its unit; a list input (cash flows) as a list of numbers in its unit.
+    const values = Object.fromEntries(Object.entries(readKnowns()).map(([symbol, { value, unit }]) => [symbol, { value, unit }]));
+    if (t.list) values[t.list.symbol] = readList(t);
+    const spec = { template: t.id, values, unknown: S.unknown };
+    if (unitSel) spec.resultUnit = unitSel.value;
+    const opts = { history: true, sensitivities: true, ...base };
+    return { kind: 'template', spec, opts, req: { ...spec, ...opts } };
   }
   if (S.mode === 'custom') {
     const c = app.customCheck;
@@ -409,8 +409,9 @@ function buildRequest() {
     const { guesses, bracket, ...rest } = base;
     let spec = unknowns;
     if (unknowns.length === 1 && (guesses || bracket)) spec = [{ name: unknowns[0], guesses: guesses ?? bracket }];
-    const req = { equations: S.equations, knowns, unknowns: spec, history: true, sensitivities: true, ...rest };
-    return { kind: 'equation', req, start: { guesses, bracket } };
+    const opts = { history: true, sensitivities: true, ...rest };
+    const problemSpec = { equations: S.equations, knowns, unknowns: spec };
+    return { kind: 'equation', spec: problemSpec, opts, req: { ...problemSpec, ...opts }, start: { guesses, bracket } };
   }
   throw new FormError('This mode has no Solve button.');
 }
@@ -431,15 +432,19 @@ function solve() {
     throw e;
   }
   let r;
+  let problem = null;
   try {
-    r = built.kind === 'template' ? tacit.solveTemplate(built.req) : tacit.solveEquation(built.req);
+    problem = tacit.problem(built.spec);
+    r = problem.solve(built.opts);
   } catch (e) {
+    problem?.free();
     err.textContent = `${e.message}${e.code ? ` (${e.code})` : ''}`;
     hideResults();
     if (e.code === 'internal-panic' || e.code === 'instance-aborted') notify('The solver stopped with an internal error. Reload the page to start it again; your calculation is kept in the link.');
     return null;
   }
-  app.lastResult = { built, r };
+  app.lastResult?.problem?.free();
+  app.lastResult = { built, r, problem };
   presentResult(built, r);
   return r;
 }
@@ -456,8 +461,6 @@ function presentResult(built, r) {
     xLabel = unknownList()[0] ?? 'x';
   }
   const t = currentTemplate();
-  const conv = siToResultUnit(built);
-  if (r.bracket) r.bracket = r.bracket.map(conv);
   showResult(r, {
     answers,
     outputs: (r.outputs ?? []).map((o) => ({ ...o, unit: prettyUnit(o.unit) })),
@@ -468,8 +471,9 @@ function presentResult(built, r) {
   byId('announce').textContent = `${answers.map((a) => `${a.symbol} = ${fmt(a.value, 6)} ${a.unit}`).join(', ')}: ${r.converged ? 'converged' : 'not converged'}.`;
   probe.solves++;
   if (probe.firstSolveMs === null) probe.firstSolveMs = performance.now();
-  const history = convertHistory(r.history ?? [], conv);
-  showHistory(history, history.length ? sampleCurve(built, history, conv) : null, xLabel);
+  // Every x of the result (history, bracket, roots) is already in the unit chosen.
+  const history = r.history ?? [];
+  showHistory(history, history.length ? sampleCurve(history) : null, xLabel);
   if (!history.length && r.systemHistory?.length) showSystemHistory(r.systemHistory);
   showSensitivities(r.sensitivities, meaningOf);
   showRootsCard(built, r);
@@ -487,29 +491,6 @@ function historyUnit(r) {
   return r.unit;
 }
 
-/**
- * A template's history (and bracket) is in the SI unit of the unknown; the page shows it
- * in the result unit. Returns a function from SI values to the result unit.
- */
-function siToResultUnit(built) {
-  if (built.kind !== 'template') return (x) => x;
-  const v = currentTemplate()?.variables.find((x) => x.symbol === built.req.unknown);
-  const si = app.units.get(v?.dimension)?.[0];
-  const unit = built.req.resultUnit;
-  if (!si || !unit || si === unit) return (x) => x;
-  return (x) => (Number.isFinite(x) ? tacit.convertUnit(x, si, unit) : x);
-}
-
-function convertHistory(rows, conv) {
-  let prev = null;
-  return rows.map((r) => {
-    const x = conv(r.x);
-    const step = prev === null || r.step === null ? r.step : x - prev;
-    prev = x;
-    return { ...r, x, step, bracket: r.bracket ? r.bracket.map(conv) : r.bracket };
-  });
-}
-
 function showSystemHistory(rows) {
   const card = byId('history');
   card.hidden = false;
@@ -524,53 +505,10 @@ function showSystemHistory(rows) {
   resBox.append(plot({ title: 'residual norm against step', xLabel: 'step k', yLabel: '‖residual‖', logY: true, layers: [{ kind: 'line', cls: 'trace', data: pts }, { kind: 'points', cls: 'trace', data: pts }] }));
 }
 
-/**
- * A template with one equation and no list or auxiliary unknown, as the same equation text
- * with the given values in SI units (the units its equations are written in). The text
- * calls (solveEquation, findRoots, sweep) are much quicker than repeated template solves,
- * so plots, scans and sweeps use this form when it exists.
- */
-function templateAsEquation(built) {
-  if (built.kind !== 'template') return null;
-  const t = currentTemplate();
-  if (!t || t.list || t.raw.auxiliary?.length) return null;
-  const check = tacit.checkEquation(t.equations);
-  if (!check.ok || check.equations !== 1) return null;
-  const variable = (sym) => t.variables.find((v) => v.symbol === sym);
-  const siOf = (sym) => app.units.get(variable(sym)?.dimension)?.[0];
-  const converter = (from, to) => (from === to ? (x) => x : (x) => (Number.isFinite(x) ? tacit.convertUnit(x, from, to) : x));
-  const knowns = {};
-  const inputUnits = {};
-  for (const e of built.req.values) {
-    const si = siOf(e.symbol);
-    if (!si) return null;
-    knowns[e.symbol] = converter(e.unit, si)(e.value);
-    inputUnits[e.symbol] = e.unit;
-  }
-  const unknown = built.req.unknown;
-  const v = variable(unknown);
-  const si = siOf(unknown);
-  if (!v || !si) return null;
-  const unit = built.req.resultUnit ?? v.unit;
-  const defaultToSI = converter(v.unit, si);
-  const pair = (p) => (Array.isArray(p) && p.length === 2 ? p.map((x) => defaultToSI(Number(x))) : undefined);
-  return {
-    equations: t.equations,
-    knowns,
-    unknown,
-    toSI: converter(unit, si),
-    fromSI: converter(si, unit),
-    inputToSI: (sym) => converter(inputUnits[sym], siOf(sym)),
-    bounds: pair(v.bounds)?.map((x, i) => (Number.isFinite(x) ? x : i === 0 ? -Infinity : Infinity)),
-    guesses: built.req.guesses ? built.req.guesses.map(converter(unit, si)) : pair(v.guesses),
-  };
-}
-
-/**
- * Samples f over the visited range with the solver's own residual: each sample is a solve
- * started at two points with a budget of two evaluations, whose history gives f at both.
- */
-function sampleCurve(built, history, conv) {
+/** f over the visited range, from the compiled problem (x in the unknown's unit). */
+function sampleCurve(history) {
+  const problem = app.lastResult?.problem;
+  if (!problem || problem.unknown === null) return null;
   const xs = history.map((r) => r.x).filter(Number.isFinite);
   if (xs.length < 2) return null;
   let lo = xs.reduce((a, b) => Math.min(a, b));
@@ -579,33 +517,12 @@ function sampleCurve(built, history, conv) {
   const pad = (hi - lo) * 0.05;
   lo -= pad;
   hi += pad;
-  const n = 80;
-  const out = [];
-  const asEq = templateAsEquation(built);
-  const callOnce = (a, b) => {
-    const base = { ...built.req, method: 'secant', tolerances: { maxEvals: 2 }, history: true, sensitivities: false };
-    delete base.bracket;
-    try {
-      if (asEq) {
-        const r = tacit.solveEquation({ equations: asEq.equations, knowns: asEq.knowns, unknowns: [{ name: asEq.unknown, guesses: [asEq.toSI(a), asEq.toSI(b)] }], method: 'secant', tolerances: { maxEvals: 2 }, history: true });
-        return r.history;
-      }
-      if (built.kind === 'template') {
-        return tacit.solveTemplate({ ...base, guesses: [a, b] }).history;
-      }
-      const name = unknownList()[0];
-      return tacit.solveEquation({ ...base, unknowns: [{ name, guesses: [a, b] }] }).history;
-    } catch {
-      return [];
-    }
-  };
-  for (let i = 0; i < n; i += 2) {
-    const a = lo + ((hi - lo) * i) / (n - 1);
-    const b = lo + ((hi - lo) * (i + 1)) / (n - 1);
-    for (const row of callOnce(a, b).slice(0, 2)) if (row.kind === 'initial') out.push([conv(row.x), row.fx]);
+  try {
+    const s = problem.sample(lo, hi, 80);
+    return s.x.map((x, i) => [x, s.f[i]]);
+  } catch {
+    return null;
   }
-  out.sort((p, q) => p[0] - q[0]);
-  return out;
 }
 
 // ---- roots in a range ----------------------------------------------------------------
@@ -664,14 +581,7 @@ function scanRoots() {
   if (!last) return;
   let found;
   try {
-    const asEq = templateAsEquation(last.built);
-    if (asEq) {
-      const [a, b] = [asEq.toSI(lo), asEq.toSI(hi)].sort((p, q) => p - q);
-      found = tacit.findRoots({ equations: asEq.equations, knowns: asEq.knowns, unknown: asEq.unknown, range: [a, b] });
-      found.roots = found.roots.map((rt) => ({ ...rt, x: asEq.fromSI(rt.x) })).sort((p, q) => p.x - q.x);
-      found.limits = found.limits ? `${found.limits} (The scan works in SI units.)` : found.limits;
-    } else if (last.built.kind === 'template') found = scanTemplate(last.built, lo, hi);
-    else found = tacit.findRoots({ equations: app.S.equations, knowns: last.built.req.knowns, unknown: unknownList()[0], range: [lo, hi] });
+    found = last.problem.roots(lo, hi);
   } catch (e) {
     body.append(h('p', { class: 'error-text' }, e.message));
     return;
@@ -684,36 +594,6 @@ function scanRoots() {
     body.append(rootChoiceList(found.roots, unit));
   }
   if (found.limits) body.append(h('p', { class: 'hint' }, found.limits));
-}
-
-/** Roots of a template's equation in [lo, hi] (in the result unit), from the solver's
- *  own residual: sampled on a grid, each sign change then solved from its two ends. */
-function scanTemplate(built, lo, hi) {
-  const n = 200;
-  const conv = siToResultUnit(built);
-  const pts = [];
-  let evaluations = 0;
-  for (let i = 0; i < n; i += 2) {
-    const a = lo + ((hi - lo) * i) / (n - 1);
-    const b = lo + ((hi - lo) * (i + 1)) / (n - 1);
-    const r = tacit.solveTemplate({ ...built.req, guesses: [a, b], method: 'secant', tolerances: { maxEvals: 2 }, history: true, sensitivities: false });
-    evaluations += r.evaluations;
-    for (const row of r.history.slice(0, 2)) pts.push([conv(row.x), row.fx]);
-  }
-  pts.sort((p, q) => p[0] - q[0]);
-  const roots = [];
-  for (let i = 1; i < pts.length; i++) {
-    const [xa, fa] = pts[i - 1];
-    const [xb, fb] = pts[i];
-    if (!Number.isFinite(fa) || !Number.isFinite(fb)) continue;
-    if (fa === 0) { roots.push({ x: xa, fx: 0, kind: 'sign-change', converged: true }); continue; }
-    if (Math.sign(fa) !== Math.sign(fb) && fb !== 0) {
-      const r = tacit.solveTemplate({ ...built.req, guesses: [xa, xb], history: false, sensitivities: false });
-      evaluations += r.evaluations;
-      if (r.converged && r.value >= Math.min(xa, xb) - Math.abs(xb - xa) && r.value <= Math.max(xa, xb) + Math.abs(xb - xa)) roots.push({ x: r.value, fx: r.residual, kind: 'sign-change', converged: true });
-    }
-  }
-  return { roots, evaluations, limits: `Scanned ${pts.length} points ${fmt((hi - lo) / (pts.length - 1), 3)} apart: roots closer together than that, or roots where f touches zero without changing sign, can be missed.` };
 }
 
 // ---- sweep ---------------------------------------------------------------------------
@@ -792,37 +672,20 @@ function buildSweepJob() {
   if (from === null || to === null) throw new FormError('Give the range of the sweep (From and To).');
   if (from === to) throw new FormError('The sweep range is empty: From equals To.');
   if (!Number.isInteger(nRaw) || nRaw < 2 || nRaw > 100000) throw new FormError(`Sweep points must be a whole number from 2 to 100000, got ${S.sweep.n}.`);
-  const asEq = templateAsEquation(built);
-  if (asEq) {
-    const knowns = { ...asEq.knowns };
-    delete knowns[input];
-    const toSI = asEq.inputToSI(input);
-    const request = { equations: asEq.equations, knowns, unknown: asEq.unknown, input, from: toSI(from), to: toSI(to), points: nRaw, method: built.req.method, tolerances: built.req.tolerances };
-    if (asEq.guesses) request.guesses = asEq.guesses;
-    if (asEq.bounds) request.bounds = asEq.bounds;
-    const inputUnit = built.req.values.find((v) => v.symbol === input)?.unit ?? '';
-    return {
-      job: { kind: 'equation', request },
-      input,
-      unknown: S.unknown,
-      unit: prettyUnit(built.req.resultUnit),
-      inputUnit: prettyUnit(inputUnit),
-      // Back to the units on the page: the inputs as typed, the unknown in its chosen unit.
-      finish: (result) => ({ ...result, input: result.input.map((_, i) => (i === nRaw - 1 ? to : from + ((to - from) * i) / (nRaw - 1))), root: result.root.map(asEq.fromSI) }),
-    };
-  }
-  if (built.kind === 'template') {
-    const req = { ...built.req, history: false, sensitivities: false };
-    const inputUnit = req.values.find((v) => v.symbol === input)?.unit ?? '';
-    return { job: { kind: 'template', request: req, input, from, to, points: nRaw }, input, unknown: S.unknown, unit: prettyUnit(req.resultUnit), inputUnit: prettyUnit(inputUnit) };
-  }
-  if (unknownList().length !== 1) throw new FormError('A sweep solves for one unknown.');
-  const knowns = { ...built.req.knowns };
-  delete knowns[input];
-  const request = { equations: S.equations, knowns, unknown: unknownList()[0], input, from, to, points: nRaw, method: built.req.method, tolerances: built.req.tolerances };
-  const g = built.start.guesses ?? built.start.bracket;
-  if (g) request.guesses = g;
-  return { job: { kind: 'equation', request }, input, unknown: unknownList()[0], unit: '', inputUnit: '' };
+  if (built.kind !== 'template' && unknownList().length !== 1) throw new FormError('A sweep solves for one unknown.');
+  // The problem as solved, and the sweep of one of its knowns (from and to in the unit the
+  // input is given in); the core reports every point in the units on the page.
+  const sweep = { input, from, to, points: nRaw, method: built.opts.method, tolerances: built.opts.tolerances };
+  const g = built.kind === 'template' ? built.opts.guesses : built.start.guesses ?? built.start.bracket;
+  if (g) sweep.guesses = g;
+  const inputUnit = built.kind === 'template' ? built.spec.values[input]?.unit ?? '' : '';
+  return {
+    job: { spec: built.spec, sweep },
+    input,
+    unknown: built.kind === 'template' ? S.unknown : unknownList()[0],
+    unit: built.kind === 'template' ? prettyUnit(built.spec.resultUnit) : '',
+    inputUnit: prettyUnit(inputUnit),
+  };
 }
 
 function runSweep() {
@@ -859,7 +722,7 @@ function runSweep() {
       if (m.type === 'result') {
         probe.sweeps++;
         probe.lastSweepMs = m.ms;
-        app.sweepResult = { ...spec, result: spec.finish ? spec.finish(m.result) : m.result };
+        app.sweepResult = { ...spec, result: m.result };
         showSweep(app.sweepResult);
         const failed = m.result.converged.filter((c) => !c).length;
         status.textContent = `${m.result.input.length} points in ${m.ms.toFixed(0)} ms, ${m.result.totalEvaluations} evaluations${failed ? `; ${failed} did not converge (marked)` : ''}.`;
@@ -901,14 +764,13 @@ function drillWorkerTrap() {
 probe.drillWorkerTrap = drillWorkerTrap;
 
 /** For the benchmark: the current sweep set-up with n points, run on the page thread. */
-probe.timeDirectSweep = (n) => {
+probe.timeDirectSweep = async (n) => {
   const saved = app.S.sweep.n;
   app.S.sweep.n = String(n);
   try {
     const spec = buildSweepJob();
     const t0 = performance.now();
-    const result = runSweepJob(spec.job);
-    if (spec.finish) spec.finish(result);
+    await runSweepJob(spec.job);
     return performance.now() - t0;
   } finally {
     app.S.sweep.n = saved;

@@ -26,7 +26,7 @@ function fact(term, value, title) {
 }
 
 /**
- * r: the result object of solveTemplate / solveEquation / a stepper.
+ * r: the result of a Problem's solve, or of a stepper.
  * view: { answers: [{ symbol, value, unit }], settings: [[term, text]], notes, caution }
  */
 export function showResult(r, view) {
