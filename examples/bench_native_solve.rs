@@ -6,7 +6,7 @@
 
 use std::time::{Duration, Instant};
 
-use tacit::api;
+use tacit::api::json as api;
 
 /// The workloads, shared with scripts/bench-wasm.mjs (same JSON requests).
 const TEMPLATE: &str = r#"{"id":"pipes.colebrook","values":{"Re":360000,"eps":{"value":0.15,"unit":"mm"},"D":{"value":300,"unit":"mm"}},"unknown":"f"}"#;

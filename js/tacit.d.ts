@@ -1,8 +1,103 @@
 // Types of the tacit ES module (dist/pkg/tacit.js).
 //
-// Numbers that are not finite (NaN, Infinity) may appear in results, for example the
-// `step` of the first history row or the residual of a failed solve. Requests may use
-// `Infinity` and `-Infinity` for open bounds; NaN in a request is always an error.
+// Requests and results are plain objects. Numbers that are not finite (NaN, Infinity)
+// may appear in results as numbers, for example the `step` of the first history row or
+// the residual of a failed solve; names are always strings. Requests may use `Infinity`,
+// `-Infinity` or `null` for open bounds; NaN in a request is always an error.
+
+/**
+ * Every code a TacitError may carry (README, "Error codes", says what each means).
+ * tests/js/codes.test.mjs checks this list against the codes in the Rust source and in
+ * tacit.js, so it cannot drift.
+ */
+export type ErrorCode =
+  | "aborted"
+  | "ambiguous-unit"
+  | "bad-bounds"
+  | "bad-budget"
+  | "bad-call"
+  | "bad-coverage-factor"
+  | "bad-definition"
+  | "bad-digits"
+  | "bad-number"
+  | "bad-range"
+  | "bad-request"
+  | "bad-samples"
+  | "bad-saved-stepper"
+  | "bad-tolerance"
+  | "bad-type"
+  | "bad-uncertainty"
+  | "bad-unit"
+  | "callback-bad-value"
+  | "callback-threw"
+  | "catalogue"
+  | "catalogue-expression"
+  | "circular-definition"
+  | "count-mismatch"
+  | "defined-name"
+  | "dimension-mismatch"
+  | "dimensionless-argument"
+  | "duplicate-definition"
+  | "duplicate-name"
+  | "empty-input"
+  | "empty-unit"
+  | "equal-guesses"
+  | "equation-count"
+  | "equation-too-long"
+  | "equation-without-unknown"
+  | "incompatible-unit"
+  | "init-failed"
+  | "input-too-long"
+  | "instance-aborted"
+  | "internal"
+  | "internal-panic"
+  | "missing-operand"
+  | "missing-operator"
+  | "missing-value"
+  | "needs-one-unknown"
+  | "nesting-too-deep"
+  | "no-branches"
+  | "no-root"
+  | "no-root-on-branch"
+  | "no-solution-range"
+  | "no-unknown"
+  | "no-unknowns"
+  | "non-finite-input"
+  | "not-an-expression"
+  | "not-an-unknown"
+  | "not-initialised"
+  | "nothing-pending"
+  | "outside-validity"
+  | "parse-error"
+  | "problem-freed"
+  | "short-list"
+  | "singular-root"
+  | "start-outside-bounds"
+  | "stepper-freed"
+  | "structurally-singular"
+  | "too-deep"
+  | "too-many-equals"
+  | "too-many-inputs"
+  | "too-many-trials"
+  | "too-many-units"
+  | "too-many-unknowns"
+  | "unbalanced-brackets"
+  | "unbalanced-parentheses"
+  | "unexpected-character"
+  | "unexpected-comma"
+  | "unit-not-accepted"
+  | "unit-too-long"
+  | "unknown-branch"
+  | "unknown-dimension"
+  | "unknown-function"
+  | "unknown-method"
+  | "unknown-not-in-equations"
+  | "unknown-operator"
+  | "unknown-template"
+  | "unknown-unit"
+  | "unknown-variable"
+  | "unused-name"
+  | "wrong-argument-count";
 
 /** A method of the scalar driver. "auto" is the default. */
 export type MethodName = "auto" | "secant" | "hybrid" | "bisection" | "illinois";
@@ -155,18 +250,29 @@ export interface Sensitivity {
 /** An unknown of a text equation set. */
 export interface UnknownSpec {
   name: string;
+  /** Two starting points, in the unknown's unit. */
   guesses?: NumberPair;
+  /** In the unknown's unit. */
   bounds?: BoundsPair;
+  /** The unit of its guesses, bounds and answer (the same as `units[name]`). */
+  unit?: string;
 }
+
+/** A number in the variable's own unit, `{value, unit}` or `[value, unit]`. */
+export type Quantity = number | { value: number; unit: string } | readonly [number, string];
 
 /** Solve a text equation or set for its unknowns. */
 export interface EquationRequest {
   /** Statements: `lhs = rhs`, a bare expression (= 0), `name := expr`; `;` or newlines between; `#` comments. */
   equations: string;
-  /** Given values by name. */
-  knowns?: Readonly<Record<string, number>>;
+  /** Given values by name: a number is in `units[name]` (or has no unit). */
+  knowns?: Readonly<Record<string, Quantity>>;
+  /** The one unknown, by name (or give `unknowns`). */
+  unknown?: string;
   /** The unknowns (names, or specs with guesses and bounds). Omitted: every variable not in `knowns`. */
   unknowns?: ReadonlyArray<string | UnknownSpec>;
+  /** Two starting points of the one unknown, in its unit. */
+  guesses?: NumberPair;
   /**
    * Units by name (variables and definitions), such as `{ D: "in", Q: "gpm" }`: values,
    * guesses, bounds and results are in these units, the dimensions are checked, and the
@@ -190,18 +296,36 @@ export interface BlockReport {
   iterations: number;
 }
 
-export interface EquationResult extends SolveOutcome {
-  /** The unknowns by name. */
-  unknowns: Record<string, number>;
-  /** The root when there is one unknown, else null. */
+/**
+ * The result of a solve, of a template or of equations. Every x (root, value, unknowns,
+ * bracket, history, other roots, certificate) is in the unit the caller chose; SI only
+ * under `rootSi`. Residuals are the equations' own, in SI where they have units.
+ */
+export interface SolveResult extends SolveOutcome {
+  /** The one unknown's name, or null with several. */
+  unknown: string | null;
+  /** The one unknown's answer in `unit` (the last estimate when not converged), or null with several. */
   root: number | null;
+  /** The same as `root` for a template, else null. */
+  value: number | null;
+  /** The unit of `root`, `bracket`, `history[].x` and `otherRoots`; null with none. */
+  unit: string | null;
+  /** `root` in SI. */
+  rootSi: number | null;
+  /** Every unknown, in its unit. */
+  unknowns: Record<string, number>;
+  /** The unit of every name reported with one. */
+  units: Record<string, string>;
   /** The largest residual in absolute value. */
   residual: number;
   /** One residual per equation. */
   residuals: number[];
+  /** Evaluations the driver made to check the method's claim of convergence. */
+  checks: number;
   bracket: [number, number] | null;
-  /** Scalar history rows (one unknown); empty for systems. */
+  /** Scalar history rows (one unknown); empty for systems. At most 4000 rows. */
   history: HistoryRow[];
+  historyDropped: number;
   /** Broyden history rows (several unknowns); empty for one unknown. */
   systemHistory: SystemHistoryRow[];
   /** Values of the `name := expr` definitions at the solution. */
@@ -210,9 +334,21 @@ export interface EquationResult extends SolveOutcome {
   sensitivityEvaluations: number;
   /** The blocks the set was split into, in the order solved. */
   blocks: BlockReport[];
-  /** The units of the request, when it gave any. */
-  units?: Record<string, string>;
+  /** A template's branch label of the answer, else null. */
+  branch: string | null;
+  /** A template's other roots, in `unit`, with their branch labels. */
+  otherRoots: { value: number; label: string | null }[];
+  /** Evaluations spent scanning for roots, beyond `evaluations`. */
+  scanEvaluations: number;
+  notes: string[];
+  /** A safety caution, where the result feeds a design that can hurt someone. */
+  caution: string | null;
+  /** A template's auxiliary quantities, outputs and explicit approximations at the solution. */
+  outputs: TemplateOutputValue[];
 }
+
+export type EquationResult = SolveResult;
+export type TemplateResult = SolveResult;
 
 /** A given value of a template, in a unit of its dimension. */
 export interface TemplateValue {
@@ -220,17 +356,19 @@ export interface TemplateValue {
   unit: string;
 }
 
+/**
+ * A given value of a template by symbol: `{value, unit}`, `[value, unit]`, or a number in
+ * the variable's default unit; the list symbol (cash flows) takes a list of numbers.
+ */
+export type TemplateValues = Readonly<Record<string, Quantity | ReadonlyArray<number>>>;
+
 export interface TemplateRequest {
   /** Template id from `catalogue()`. */
   id: string;
-  /**
-   * Given values by symbol: `{value, unit}`, `[value, unit]`, or a number in the variable's
-   * default unit; the list symbol (cash flows) takes a list of numbers. The list form
-   * `[{symbol, value, unit?}]` may repeat the list symbol.
-   */
-  values:
-    | Readonly<Record<string, TemplateValue | readonly [number, string] | number | ReadonlyArray<number>>>
-    | ReadonlyArray<{ symbol: string; value: number; unit?: string }>;
+  /** Every known the template needs (a missing one is an error naming it). */
+  values: TemplateValues;
+  /** Fill the knowns not given from the demo scenario (default false). */
+  useScenarioDefaults?: boolean;
   /** The symbol to solve for. */
   unknown: string;
   /** Unit of the result (default: the template's default unit for the unknown). */
@@ -243,23 +381,6 @@ export interface TemplateRequest {
   tolerances?: Tolerances;
   history?: boolean;
   sensitivities?: boolean;
-}
-
-export interface TemplateResult extends EquationResult {
-  /** The unknown in `unit`. */
-  value: number;
-  unit: string;
-  /** The branch label of `value`, for templates that label their roots. */
-  branch: string | null;
-  /** Other roots of multi-root templates, in `unit`, with their branch labels. */
-  otherRoots: { value: number; label: string | null }[];
-  /** Evaluations spent scanning for roots, beyond `evaluations`. */
-  scanEvaluations: number;
-  notes: string[];
-  /** A safety caution, where the result feeds a design that can hurt someone. */
-  caution: string | null;
-  /** Auxiliary quantities, outputs and explicit approximations at the solution. */
-  outputs: TemplateOutputValue[];
 }
 
 /** A labelled common value of a variable. */
@@ -408,6 +529,8 @@ export interface RangeRoot {
   converged: boolean;
   /** The evidence that this is a root, exactly when `converged`. */
   certificate: Certificate | null;
+  /** A template's branch label, where it names one. */
+  label: string | null;
 }
 
 /** All roots in [lo, hi] of a text equation with one unknown, or of a JS function. */
@@ -415,7 +538,8 @@ export interface FindRootsRequest {
   range: NumberPair;
   /** Text equation (with `knowns` and `unknown`), or give `f` instead. */
   equations?: string;
-  knowns?: Readonly<Record<string, number>>;
+  knowns?: Readonly<Record<string, Quantity>>;
+  units?: Readonly<Record<string, string>>;
   /** Default: the one variable not in `knowns`. */
   unknown?: string;
   f?: (x: number) => number;
@@ -425,6 +549,8 @@ export interface FindRootsRequest {
 }
 
 export interface FindRootsResult {
+  /** The unit of every x, or null. */
+  unit: string | null;
   roots: RangeRoot[];
   /** Sign changes that are poles or jumps, not roots: the final bracket of each. */
   discontinuities: Array<[number, number]>;
@@ -435,27 +561,47 @@ export interface FindRootsResult {
   limits: string;
 }
 
-/** Solve one unknown across a range of one known, each solve starting from the previous root. */
-export interface SweepRequest {
-  equations: string;
-  knowns?: Readonly<Record<string, number>>;
-  /** The unknown solved at each point. Default: the one variable not in `knowns` or `input`. */
-  unknown?: string;
+/** The sweep of one known of a compiled problem. */
+export interface SweepSpec {
   /** The known that is swept. */
   input: string;
+  /** In the input's unit. */
   from: number;
   to: number;
   /** Number of points, from and to included (2 to 100 000). */
   points: number;
-  /** Guesses for the first point (default [1, 2]). */
+  /** "linear" (default) or "log". */
+  spacing?: "linear" | "log";
+  /** Guesses for the first point, in the unknown's unit. */
   guesses?: NumberPair;
-  bounds?: BoundsPair;
   method?: MethodName;
   tolerances?: Tolerances;
 }
 
+/**
+ * Solve one unknown across a range of one known, each solve starting from the previous
+ * root: a problem (template or equations) and its sweep, in one object.
+ */
+export interface SweepRequest extends SweepSpec {
+  /** A template id (or give `equations`). */
+  id?: string;
+  values?: TemplateValues;
+  resultUnit?: string;
+  branch?: string;
+  useScenarioDefaults?: boolean;
+  equations?: string;
+  knowns?: Readonly<Record<string, Quantity>>;
+  units?: Readonly<Record<string, string>>;
+  /** The unknown solved at each point. Default: the one variable not in `knowns` or `input`. */
+  unknown?: string;
+  /** The unknown's bounds (equations only). */
+  bounds?: BoundsPair;
+}
+
 export interface SweepResult {
+  /** The input's values, in `inputUnit`. */
   input: number[];
+  /** The roots, in `unit`. */
   root: number[];
   status: StatusCode[];
   converged: boolean[];
@@ -463,9 +609,111 @@ export interface SweepResult {
   /** Sum of `evaluations`. */
   totalEvaluations: number;
   /** The unknown solved and the known swept. */
-  unknown: string;
+  unknown: string | null;
   inputName: string;
+  inputUnit: string | null;
+  unit: string | null;
+  /** Points done; the sweep is complete when it equals `points`. */
+  done: number;
+  points: number;
 }
+
+/** How an asynchronous sweep runs. */
+export interface SweepControl {
+  /** Stops the sweep between chunks: it rejects with a TacitError of code "aborted" whose `partial` holds the points done. */
+  signal?: AbortSignal;
+  /** Called after every chunk. */
+  onProgress?: (progress: { done: number; points: number }) => void;
+  /** Points per chunk (default: sized to about 12 ms a chunk). */
+  chunk?: number;
+}
+
+/** A problem: a bundled template, or equations of one's own. */
+export type ProblemSpec =
+  | {
+      template: string;
+      values?: TemplateValues;
+      unknown: string;
+      resultUnit?: string;
+      branch?: string;
+      useScenarioDefaults?: boolean;
+    }
+  | {
+      id: string;
+      values?: TemplateValues;
+      unknown: string;
+      resultUnit?: string;
+      branch?: string;
+      useScenarioDefaults?: boolean;
+    }
+  | {
+      equations: string;
+      knowns?: Readonly<Record<string, Quantity>>;
+      units?: Readonly<Record<string, string>>;
+      unknown?: string;
+      unknowns?: ReadonlyArray<string | UnknownSpec>;
+    };
+
+/** How to solve a compiled problem; all optional. */
+export interface SolveOptions {
+  method?: MethodName;
+  tolerances?: Tolerances;
+  /** Two starting points of the one unknown, in its unit. */
+  guesses?: NumberPair;
+  history?: boolean;
+  sensitivities?: boolean;
+}
+
+export interface RootsOptions {
+  /** Uniform samples across the range (default 400, at most 1 000 000). */
+  samples?: number;
+  tolerances?: Tolerances;
+}
+
+/** f sampled for a plot: `x` in `unit`, `f` the residual (NaN where undefined). */
+export interface SampleResult {
+  unit: string | null;
+  x: number[];
+  f: number[];
+}
+
+export interface SensitivitiesResult {
+  converged: boolean;
+  status: StatusCode;
+  message: string;
+  root: number | null;
+  unit: string | null;
+  sensitivities: Sensitivity[];
+  /** Evaluations spent on the sensitivities. */
+  evaluations: number;
+}
+
+/**
+ * A problem compiled once, to be solved, evaluated, sampled, scanned and swept as often
+ * as wanted. Every x is in the unit the caller chose.
+ */
+export class Problem {
+  private constructor();
+  /** The one unknown's name, or null with several. */
+  readonly unknown: string | null;
+  /** The unit of the one unknown's values, or null. */
+  readonly unit: string | null;
+  solve(opts?: SolveOptions): SolveResult;
+  /** The residual at x (in the unknown's unit); NaN where it is not defined. */
+  residual(x: number): number;
+  /** f at n evenly spaced points from lo to hi (2 to 100 000 points). */
+  sample(lo: number, hi: number, n: number): SampleResult;
+  /** Every root from lo to hi, certified, labelled by branch where a template names them. */
+  roots(lo: number, hi: number, opts?: RootsOptions): FindRootsResult;
+  sensitivities(opts?: SolveOptions): SensitivitiesResult;
+  /** A sweep in chunks, yielding to the event loop between them. */
+  sweep(spec: SweepSpec, control?: SweepControl): Promise<SweepResult>;
+  /** Releases the compiled problem now (optional). */
+  free(): void;
+}
+
+/** Compiles a problem; errors name the value and the place. */
+export function problem(spec: ProblemSpec): Problem;
 
 export interface SystemOptions {
   /** Starting point, one value per unknown (1 to 200 unknowns). */
@@ -494,12 +742,12 @@ export type CheckResult =
     }
   | {
       ok: false;
-      code: string;
+      code: ErrorCode;
       message: string;
       /** Character offset of the problem, when known. */
-      position: number | null;
+      position?: number;
       /** The offending line with a `^` under the position, when known. */
-      caret: string | null;
+      caret?: string;
     };
 
 /** A value to initialise with: the .wasm bytes, a compiled module, or where to fetch it from. */
@@ -566,8 +814,10 @@ export class Stepper {
 /** Every error the module throws. */
 export class TacitError extends Error {
   /** Stable machine-readable code, e.g. "bad-request", "parse-error", "callback-threw". */
-  readonly code: string;
+  readonly code: ErrorCode;
   /** Character offset into the equation text, for equation errors. */
   readonly position?: number;
-  constructor(code: string, message: string, position?: number, options?: { cause?: unknown });
+  /** For code "aborted": the points of the sweep done before it stopped, or null. */
+  partial?: SweepResult | null;
+  constructor(code: ErrorCode, message: string, position?: number, options?: { cause?: unknown });
 }

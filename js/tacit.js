@@ -1,9 +1,10 @@
 // tacit: the public ES module over the WebAssembly core (tacit_core.js, made by wasm-bindgen).
 //
-// Requests cross the boundary as JSON text. Non-finite numbers travel as the strings
-// "NaN", "Infinity" and "-Infinity" (JSON has none) and are turned back into numbers here.
-// Scalar JS functions are driven from here over the ask–tell stepper, so the same loop
-// serves plain and Promise-returning functions. Every error is a TacitError with a code.
+// Requests and results cross the boundary as JavaScript objects, read and written by the
+// core with serde (numbers stay numbers, NaN and Infinity included; names stay strings).
+// A compiled problem is a Problem; the other calls are conveniences over it. Scalar JS
+// functions are driven from here over the ask–tell stepper, so the same loop serves
+// plain and Promise-returning functions. Every error is a TacitError with a code.
 
 import * as core from "./tacit_core.js";
 
@@ -165,34 +166,6 @@ function guarded(run) {
   }
 }
 
-function replacer(_key, v) {
-  if (typeof v === "number" && !Number.isFinite(v)) return String(v);
-  if (typeof v === "function") return "[function]";
-  return v;
-}
-
-function reviver(_key, v) {
-  if (v === "NaN") return NaN;
-  if (v === "Infinity") return Infinity;
-  if (v === "-Infinity") return -Infinity;
-  return v;
-}
-
-function encode(value, what) {
-  if (value === null || typeof value !== "object" || Array.isArray(value)) {
-    throw new TacitError("bad-request", `${what} must be an object, got ${describe(value)}`);
-  }
-  try {
-    return JSON.stringify(value, replacer);
-  } catch (e) {
-    throw new TacitError("bad-request", `${what} cannot be read as JSON: ${messageOf(e)}`, undefined, { cause: e });
-  }
-}
-
-// The reviver is only needed when a non-finite number was written as a string.
-const decode = (text) =>
-  text.includes('"NaN"') || text.includes('Infinity"') ? JSON.parse(text, reviver) : JSON.parse(text);
-
 function requireFunction(f, name) {
   if (typeof f !== "function") {
     throw new TacitError("bad-type", `${name} must be a function, got ${describe(f)}`);
@@ -253,35 +226,230 @@ async function evaluateAsync(f, x) {
 }
 
 // ---------------------------------------------------------------------------------------
+// A compiled problem
+
+const PROBLEM = Symbol("tacit.Problem");
+
+/** Points of a sweep solved between two yields to the event loop, when not given. */
+const SWEEP_CHUNK = 64;
+/** The time one chunk of a sweep aims at, in milliseconds, when no chunk is given. */
+const SWEEP_SLICE_MS = 12;
+/** The largest chunk of a sweep (the core's limit too). */
+const MAX_SWEEP_CHUNK = 100_000;
+
+/** Lets the event loop run (input, painting, timers) before the next chunk. */
+function yieldToEventLoop() {
+  if (typeof MessageChannel === "function") {
+    return new Promise((resolve) => {
+      const channel = new MessageChannel();
+      channel.port1.onmessage = () => {
+        channel.port1.close();
+        resolve();
+      };
+      channel.port2.postMessage(null);
+    });
+  }
+  return new Promise((resolve) => setTimeout(resolve, 0));
+}
+
+function readControl(control) {
+  if (control === undefined || control === null) return {};
+  if (typeof control !== "object") {
+    throw new TacitError("bad-type", `the sweep's control must be an object {signal, onProgress, chunk}, got ${describe(control)}`);
+  }
+  let signal, onProgress, chunk;
+  try {
+    ({ signal, onProgress, chunk } = control);
+  } catch (e) {
+    throw new TacitError("bad-request", `the sweep's control cannot be read: ${messageOf(e)}`, undefined, { cause: e });
+  }
+  if (signal !== undefined && !(typeof signal === "object" && signal !== null && "aborted" in signal)) {
+    throw new TacitError("bad-type", `signal must be an AbortSignal, got ${describe(signal)}`);
+  }
+  if (onProgress !== undefined) requireFunction(onProgress, "onProgress");
+  if (chunk !== undefined && !(Number.isInteger(chunk) && chunk >= 1 && chunk <= MAX_SWEEP_CHUNK)) {
+    throw new TacitError("bad-request", `chunk must be a whole number from 1 to ${MAX_SWEEP_CHUNK}, got ${describe(chunk)}`);
+  }
+  return { signal, onProgress, chunk };
+}
+
+function abortError(signal, partial) {
+  const err = new TacitError(
+    "aborted",
+    `the sweep was stopped after ${partial === null ? 0 : partial.done} of its points; the points done are in error.partial`,
+    undefined,
+    signal.reason === undefined ? undefined : { cause: signal.reason },
+  );
+  err.partial = partial;
+  return err;
+}
+
+/** Appends a chunk's points to the sweep so far. */
+function appendSweep(sofar, part) {
+  if (sofar === null) return part;
+  for (const k of ["input", "root", "status", "converged", "evaluations"]) {
+    for (const v of part[k]) sofar[k].push(v);
+  }
+  sofar.totalEvaluations += part.totalEvaluations;
+  sofar.done = part.done;
+  return sofar;
+}
+
+/**
+ * A problem compiled once (a bundled template or equations of one's own), to be solved,
+ * evaluated, sampled, scanned and swept as often as wanted. Every x it reports is in the
+ * unit the caller chose; SI values only under names that say so (rootSi).
+ */
+export class Problem {
+  #h;
+
+  constructor(handle, token) {
+    if (token !== PROBLEM) throw new TacitError("bad-call", "make a Problem with problem(spec)");
+    this.#h = handle;
+  }
+
+  #handle() {
+    if (this.#h === null) throw new TacitError("problem-freed", "this problem was freed");
+    return this.#h;
+  }
+
+  /** The one unknown's name, or null when there are several. */
+  get unknown() {
+    const h = this.#handle();
+    return guarded(() => h.unknown) ?? null;
+  }
+
+  /** The unit of the one unknown's values, or null when it has none. */
+  get unit() {
+    const h = this.#handle();
+    return guarded(() => h.unit) ?? null;
+  }
+
+  /** Solves it: {method, tolerances, guesses, history, sensitivities}, all optional. */
+  solve(opts = {}) {
+    const h = this.#handle();
+    return guarded(() => h.solve(opts));
+  }
+
+  /** The residual at x (in the unknown's unit); NaN where it is not defined. */
+  residual(x) {
+    const h = this.#handle();
+    return guarded(() => h.residual(x));
+  }
+
+  /** f at n evenly spaced points from lo to hi (the unknown's unit): {unit, x, f}. */
+  sample(lo, hi, n) {
+    const h = this.#handle();
+    return guarded(() => h.sample(lo, hi, n));
+  }
+
+  /** Every root from lo to hi (the unknown's unit), certified, with branch labels. */
+  roots(lo, hi, opts = {}) {
+    const h = this.#handle();
+    return guarded(() => h.roots(lo, hi, opts));
+  }
+
+  /** How the answer moves with each input: {converged, root, unit, sensitivities, evaluations}. */
+  sensitivities(opts = {}) {
+    const h = this.#handle();
+    return guarded(() => h.sensitivities(opts));
+  }
+
+  /**
+   * Solves the unknown at evenly spaced values of one known ({input, from, to, points,
+   * spacing?, guesses?, method?, tolerances?}), each from the previous root, in chunks
+   * with the event loop let run between them. control: {signal, onProgress, chunk}.
+   * An aborted signal rejects with a TacitError of code "aborted" whose `partial`
+   * holds the points done (or null).
+   */
+  async sweep(spec, control) {
+    const { signal, onProgress, chunk } = readControl(control);
+    const h = this.#handle();
+    if (signal?.aborted) throw abortError(signal, null);
+    const run = guarded(() => h.startSweep(spec));
+    let sofar = null;
+    let size = chunk ?? SWEEP_CHUNK;
+    try {
+      for (;;) {
+        const started = Date.now();
+        const part = guarded(() => run.advance(size));
+        sofar = appendSweep(sofar, part);
+        if (onProgress !== undefined) {
+          try {
+            onProgress({ done: sofar.done, points: sofar.points });
+          } catch (e) {
+            throw callbackThrew(e, "onProgress");
+          }
+        }
+        if (sofar.done >= sofar.points) return sofar;
+        if (chunk === undefined) {
+          // Aim at a slice of about SWEEP_SLICE_MS per chunk.
+          const took = Math.max(Date.now() - started, 0.5);
+          size = Math.min(MAX_SWEEP_CHUNK, Math.max(1, Math.round((size * SWEEP_SLICE_MS) / took)));
+        }
+        await yieldToEventLoop();
+        if (signal?.aborted) throw abortError(signal, sofar);
+      }
+    } finally {
+      try {
+        run.free();
+      } catch {
+        // An instance that stopped on an internal error cannot free; nothing is lost.
+      }
+    }
+  }
+
+  /** Releases the compiled problem now (optional; a sweep under way keeps its own). */
+  free() {
+    if (this.#h !== null) {
+      const h = this.#h;
+      this.#h = null;
+      try {
+        h.free();
+      } catch {
+        // An instance that stopped on an internal error cannot free; nothing is lost.
+      }
+    }
+  }
+}
+
+/** Compiles a problem: {template, values, unknown, resultUnit?, branch?, useScenarioDefaults?} or {equations, knowns?, units?, unknown? | unknowns?}. */
+export function problem(spec) {
+  return new Problem(
+    guarded(() => core.ProblemHandle.compile(spec)),
+    PROBLEM,
+  );
+}
+
+// ---------------------------------------------------------------------------------------
+// Conveniences: one call, one compiled problem
 
 /** Solves a text equation or set for its unknowns. */
 export function solveEquation(req) {
-  const json = encode(req, "the request");
-  return decode(guarded(() => core.solveEquation(json)));
+  return guarded(() => core.solveEquation(req));
 }
 
 /** Solves a bundled template for one of its symbols, with values in chosen units. */
 export function solveTemplate(req) {
-  const json = encode(req, "the request");
-  return decode(guarded(() => core.solveTemplate(json)));
+  return guarded(() => core.solveTemplate(req));
 }
 
 /** Parses an equation text without solving it; never throws for bad text. */
 export function checkEquation(text) {
   if (typeof text !== "string") throw new TacitError("bad-type", `the equation text must be a string, got ${describe(text)}`);
-  return JSON.parse(guarded(() => core.checkEquation(text)));
+  return guarded(() => core.checkEquation(text));
 }
 
-let catalogueText = null;
-/** Every bundled template with its full metadata. */
+let catalogueValue = null;
+/** Every bundled template with its full metadata (a fresh copy each call). */
 export function catalogue() {
-  if (catalogueText === null) catalogueText = guarded(() => core.catalogue());
-  return JSON.parse(catalogueText);
+  if (catalogueValue === null) catalogueValue = guarded(() => core.catalogue());
+  return structuredClone(catalogueValue);
 }
 
 /** Every dimension with its units, SI unit first. */
 export function units() {
-  return JSON.parse(guarded(() => core.unitsCatalogue()));
+  return guarded(() => core.unitsCatalogue());
 }
 
 export function convertUnit(value, from, to) {
@@ -291,10 +459,9 @@ export function convertUnit(value, from, to) {
   return guarded(() => core.convertUnit(value, from, to));
 }
 
-/** Solves one unknown across a range of one known, continuing from the previous root. */
+/** Solves one unknown across a range of one known, continuing from the previous root, in one go. */
 export function sweep(req) {
-  const json = encode(req, "the request");
-  return decode(guarded(() => core.sweep(json)));
+  return guarded(() => core.sweep(req));
 }
 
 /** All roots in a range, of a text equation with one unknown or of a JS function `f`. */
@@ -307,7 +474,6 @@ export function findRoots(req) {
   }
   if (typeof f === "function") {
     const { f: _f, ...rest } = req;
-    const json = encode(rest, "the request");
     let failure = null;
     const adapted = (x) => {
       if (failure !== null) return NaN;
@@ -318,17 +484,16 @@ export function findRoots(req) {
         return NaN;
       }
     };
-    let text;
+    let result;
     try {
-      text = nested(() => guarded(() => core.findRootsFunction(adapted, json)));
+      result = nested(() => guarded(() => core.findRootsFunction(adapted, rest)));
     } catch (e) {
       throw failure ?? e;
     }
     if (failure !== null) throw failure;
-    return decode(text);
+    return result;
   }
-  const json = encode(req, "the request");
-  return decode(guarded(() => core.findRoots(json)));
+  return guarded(() => core.findRoots(req));
 }
 
 // ---------------------------------------------------------------------------------------
@@ -347,9 +512,8 @@ export class Stepper {
   }
 
   static create(opts) {
-    const json = encode(opts, "the stepper options");
     return new Stepper(
-      guarded(() => core.StepperHandle.create(json)),
+      guarded(() => core.StepperHandle.create(opts)),
       TOKEN,
     );
   }
@@ -397,14 +561,13 @@ export class Stepper {
 
   get result() {
     const h = this.#handle();
-    const text = guarded(() => h.result());
-    return text === undefined ? null : decode(text);
+    return guarded(() => h.result()) ?? null;
   }
 
   /** The history rows so far (empty unless created with history: true). */
   get history() {
     const h = this.#handle();
-    return decode(guarded(() => h.history()));
+    return guarded(() => h.history());
   }
 
   save() {
@@ -458,7 +621,6 @@ export async function solveFunctionAsync(f, opts) {
 /** Solves F(x) = 0 for n unknowns (Broyden's method); F takes and returns n numbers. */
 export function solveSystemFunction(F, opts) {
   requireFunction(F, "F");
-  const json = encode(opts, "the options");
   let failure = null;
   const adapted = (xs) => {
     if (failure !== null) return null;
@@ -481,12 +643,12 @@ export function solveSystemFunction(F, opts) {
     }
     return Float64Array.from(r);
   };
-  let text;
+  let result;
   try {
-    text = nested(() => guarded(() => core.solveSystemFunction(adapted, json)));
+    result = nested(() => guarded(() => core.solveSystemFunction(adapted, opts)));
   } catch (e) {
     throw failure ?? e;
   }
   if (failure !== null) throw failure;
-  return decode(text);
+  return result;
 }

@@ -1,122 +1,59 @@
-//! The JSON facade: one function per call of the JavaScript API, JSON text in and JSON
-//! text out, with camelCase field names.
+//! The facade of the JavaScript API: one function per call, typed requests in and
+//! typed results out, with camelCase field names.
 //!
-//! Everything a caller sends is checked here before it reaches the core: types, finite
-//! numbers, sizes, unknown fields. Nothing in this module panics on any input, which
-//! matters on wasm32, where a panic aborts the instance for good. The wasm32 bindings
-//! (`bindings.rs`) only convert JavaScript values and call these functions; the module
-//! knows nothing about JavaScript and is tested natively (`tests/api.rs`).
+//! Requests are serde structs that refuse unknown fields; the bindings read them from
+//! JavaScript values (`serde-wasm-bindgen`), and [`json`] reads the same structs from
+//! JSON text for native callers and tests. Results are serde structs too: numbers stay
+//! numbers (NaN and ±Infinity included, in JavaScript), names stay strings.
 //!
-//! Numbers that are not finite are written as the strings `"NaN"`, `"Infinity"` and
-//! `"-Infinity"`, since JSON has none; requests may use the same strings (or `null`) for
-//! open bounds. The JavaScript wrapper turns them back into numbers.
+//! Everything a caller sends is checked here or in [`crate::problem`] before it reaches
+//! the core: types, finite numbers, sizes, unknown fields. Nothing reachable from here
+//! panics or allocates without bound, which matters on wasm32, where a panic aborts the
+//! instance for good. The module knows nothing about JavaScript and is tested natively
+//! (`tests/api.rs`).
+//!
+//! Templates, equation sets, sweeps and range scans all go through one compiled
+//! [`Problem`]; the calls here are thin conveniences over it.
 
-use serde_json::{json, Map, Value};
+use std::collections::BTreeMap;
+use std::rc::Rc;
+
+use serde::{Deserialize, Serialize};
 
 use crate::broyden;
-use crate::equations::quantities::{self, VariableUnits};
-use crate::equations::system::SystemHistoryRow;
-use crate::equations::{self, EquationSet, SetSolution, UnknownSpec};
-use crate::roots_in_range::{self, RangeRoots, ScanOptions};
-use crate::templates::{self, TemplateRequest, TemplateSolution};
-
 use crate::error::InputError;
 use crate::methods::{MethodKind, Options, Start};
-use crate::outcome::{HistoryRow, Solution, StepKind};
+use crate::outcome::{Solution, StepKind};
+use crate::problem::report::{CertificateReport, Conversion, HistoryReport, SystemHistoryReport};
+use crate::problem::spec::{
+    bounded, BoundsInput, Known, Quantity, TolerancesInput, UncertaintyInput,
+    UncertaintyOptionsInput, UnknownInput,
+};
+use crate::problem::{
+    Problem, ProblemSpec, RootsOptions, RootsReport, SampleReport, SolveOptions, SolveReport,
+    Sweep, SweepReport, SweepSpec,
+};
+use crate::roots_in_range::{self, ScanOptions};
 use crate::stepper::Stepper;
-use crate::tolerances::{Bounds, Tolerances};
+use crate::tolerances::Bounds;
 
-/// Longest request accepted, in bytes.
+/// Longest request accepted as JSON text, in bytes.
 pub const MAX_REQUEST_BYTES: usize = 4 << 20;
 /// Longest equation text accepted, in characters.
-pub const MAX_EQUATION_CHARS: usize = 100_000;
+pub const MAX_EQUATION_CHARS: usize = crate::problem::MAX_EQUATION_CHARS;
 /// Largest evaluation budget accepted.
 pub const MAX_EVALS: usize = crate::tolerances::MAX_EVALS;
 /// Longest saved stepper accepted: a record of the largest budget fits.
 pub const MAX_SAVED_STEPPER_BYTES: usize = 64 << 20;
+/// Most unknowns of a system given as a function.
+pub const MAX_SYSTEM_UNKNOWNS: usize = 200;
+/// Most points in one sweep.
+pub const MAX_SWEEP_POINTS: usize = crate::problem::MAX_SWEEP_POINTS;
+/// Longest unit symbol accepted, in characters.
+pub const MAX_UNIT_CHARS: usize = 64;
 
-// ---------------------------------------------------------------------------------------
-// Writing results
-
-/// A number as JSON; non-finite values become strings.
-pub fn num(v: f64) -> Value {
-    if v.is_finite() {
-        json!(v)
-    } else if v.is_nan() {
-        json!("NaN")
-    } else if v > 0.0 {
-        json!("Infinity")
-    } else {
-        json!("-Infinity")
-    }
-}
-
-fn nums(v: &[f64]) -> Value {
-    Value::Array(v.iter().map(|&x| num(x)).collect())
-}
-
-fn pair_value(p: Option<(f64, f64)>) -> Value {
-    match p {
-        Some((a, b)) => json!([num(a), num(b)]),
-        None => Value::Null,
-    }
-}
-
-fn history_value(rows: &[HistoryRow]) -> Value {
-    Value::Array(
-        rows.iter()
-            .map(|r| {
-                json!({
-                    "k": r.k,
-                    "x": num(r.x),
-                    "fx": num(r.fx),
-                    "step": num(r.step),
-                    "bracket": pair_value(r.bracket),
-                    "kind": r.kind.code(),
-                })
-            })
-            .collect(),
-    )
-}
-
-/// The evidence for a converged answer as a JSON object (null when not converged).
-pub fn certificate_value(c: Option<&crate::Certificate>) -> Value {
-    match c {
-        None => Value::Null,
-        Some(c) => json!({
-            "kind": c.kind.code(),
-            "explanation": c.kind.explanation(),
-            "residual": num(c.residual),
-            "bound": num(c.bound),
-            "bracket": pair_value(c.bracket),
-            "width": num(c.width),
-            "reference": pair_value(c.reference),
-        }),
-    }
-}
-
-/// A scalar [`Solution`] as a JSON object.
-pub fn solution_value(s: &Solution) -> Value {
-    json!({
-        "root": num(s.root),
-        "residual": num(s.residual),
-        "residualAt": num(s.residual_at),
-        "converged": s.converged,
-        "status": s.status.code(),
-        "message": s.message(),
-        "evaluations": s.evaluations,
-        "iterations": s.iterations,
-        "checks": s.checks,
-        "bracket": pair_value(s.bracket),
-        "certificate": certificate_value(s.certificate.as_ref()),
-        "history": history_value(&s.history),
-        "historyDropped": s.history_dropped,
-    })
-}
-
-/// Serialises a result value; this cannot fail for values built from `json!`.
-fn text_of(v: Value) -> String {
-    v.to_string()
+fn bad(message: impl Into<String>) -> InputError {
+    InputError::new("bad-request", message)
 }
 
 /// One type for every scalar function handed to the generic core, so that each core
@@ -126,346 +63,681 @@ fn erase(f: &mut impl FnMut(f64) -> f64) -> &mut dyn FnMut(f64) -> f64 {
 }
 
 // ---------------------------------------------------------------------------------------
-// Reading requests
+// Requests
 
-fn bad(message: impl Into<String>) -> InputError {
-    InputError::new("bad-request", message)
+/// `solveEquation`: a text equation or set, and how to solve it.
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(
+    deny_unknown_fields,
+    rename_all = "camelCase",
+    expecting = "an object {equations, knowns?, unknowns?, units?, method?, tolerances?, history?, sensitivities?}"
+)]
+pub struct EquationCall {
+    pub equations: String,
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub knowns: Option<BTreeMap<String, Quantity>>,
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub units: Option<BTreeMap<String, String>>,
+    #[serde(default)]
+    pub unknown: Option<String>,
+    #[serde(default, deserialize_with = "bounded::opt_vec")]
+    pub unknowns: Option<Vec<UnknownInput>>,
+    #[serde(default)]
+    pub method: Option<String>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+    #[serde(default)]
+    pub guesses: Option<(f64, f64)>,
+    #[serde(default)]
+    pub history: bool,
+    #[serde(default)]
+    pub sensitivities: bool,
+    /// Standard uncertainties of knowns (see [`ProblemSpec::uncertainties`]).
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub uncertainties: Option<BTreeMap<String, UncertaintyInput>>,
+    /// How the uncertainty is computed (see [`SolveOptions::uncertainty`]).
+    #[serde(default)]
+    pub uncertainty: Option<UncertaintyOptionsInput>,
 }
 
-fn describe(v: &Value) -> String {
-    match v {
-        Value::Null => "null".into(),
-        Value::Bool(b) => b.to_string(),
-        Value::Number(n) => n.to_string(),
-        Value::String(s) => {
-            let short: String = s.chars().take(40).collect();
-            if short.len() < s.len() {
-                format!("a string of {} characters", s.chars().count())
-            } else {
-                format!("the string {short:?}")
-            }
+impl EquationCall {
+    fn spec(&self) -> ProblemSpec {
+        ProblemSpec {
+            equations: Some(self.equations.clone()),
+            knowns: self.knowns.clone(),
+            units: self.units.clone(),
+            unknown: self.unknown.clone(),
+            unknowns: self.unknowns.clone(),
+            uncertainties: self.uncertainties.clone(),
+            ..ProblemSpec::default()
         }
-        Value::Array(a) => format!("a list of {} items", a.len()),
-        Value::Object(_) => "an object".into(),
-    }
-}
-
-/// Parses the request text, which must be a JSON object.
-pub fn parse_request(request: &str) -> Result<Map<String, Value>, InputError> {
-    if request.len() > MAX_REQUEST_BYTES {
-        return Err(bad(format!(
-            "the request is {} bytes long; the limit is {MAX_REQUEST_BYTES}",
-            request.len()
-        )));
-    }
-    let value: Value = serde_json::from_str(request)
-        .map_err(|e| bad(format!("the request is not valid JSON: {e}")))?;
-    match value {
-        Value::Object(m) => Ok(m),
-        other => Err(bad(format!(
-            "the request must be an object, got {}",
-            describe(&other)
-        ))),
-    }
-}
-
-/// A JSON object being read, with its place in the request for error messages.
-pub struct Fields<'a> {
-    map: &'a Map<String, Value>,
-    place: String,
-}
-
-impl<'a> Fields<'a> {
-    pub fn new(map: &'a Map<String, Value>, place: impl Into<String>) -> Self {
-        Fields {
-            map,
-            place: place.into(),
-        }
-    }
-
-    fn at(&self, key: &str) -> String {
-        format!("{}.{key}", self.place)
-    }
-
-    /// Rejects fields not in `allowed`, so that a misspelt option is not silently ignored.
-    pub fn only(&self, allowed: &[&str]) -> Result<(), InputError> {
-        for key in self.map.keys() {
-            if !allowed.contains(&key.as_str()) {
-                let shown: String = key.chars().take(40).collect();
-                return Err(bad(format!(
-                    "unknown field {shown:?} in {}; expected one of: {}",
-                    self.place,
-                    allowed.join(", ")
-                )));
-            }
-        }
-        Ok(())
-    }
-
-    pub fn get(&self, key: &str) -> Option<&'a Value> {
-        self.map.get(key).filter(|v| !v.is_null())
-    }
-
-    pub fn has(&self, key: &str) -> bool {
-        self.get(key).is_some()
-    }
-
-    pub fn string(&self, key: &str) -> Result<Option<&'a str>, InputError> {
-        match self.get(key) {
-            None => Ok(None),
-            Some(Value::String(s)) => Ok(Some(s)),
-            Some(v) => Err(bad(format!(
-                "{} must be a string, got {}",
-                self.at(key),
-                describe(v)
-            ))),
-        }
-    }
-
-    pub fn required_string(&self, key: &str) -> Result<&'a str, InputError> {
-        self.string(key)?
-            .ok_or_else(|| bad(format!("{} is missing", self.at(key))))
-    }
-
-    pub fn boolean(&self, key: &str) -> Result<bool, InputError> {
-        match self.get(key) {
-            None => Ok(false),
-            Some(Value::Bool(b)) => Ok(*b),
-            Some(v) => Err(bad(format!(
-                "{} must be true or false, got {}",
-                self.at(key),
-                describe(v)
-            ))),
-        }
-    }
-
-    pub fn finite(&self, key: &str) -> Result<Option<f64>, InputError> {
-        self.get(key)
-            .map(|v| finite_value(v, &self.at(key)))
-            .transpose()
-    }
-
-    pub fn required_finite(&self, key: &str) -> Result<f64, InputError> {
-        self.finite(key)?
-            .ok_or_else(|| bad(format!("{} is missing", self.at(key))))
-    }
-
-    /// A whole number in `[lo, hi]`.
-    pub fn count(&self, key: &str, lo: usize, hi: usize) -> Result<Option<usize>, InputError> {
-        let Some(v) = self.get(key) else {
-            return Ok(None);
-        };
-        let x = finite_value(v, &self.at(key))?;
-        if x.fract() != 0.0 || x < lo as f64 || x > hi as f64 {
-            return Err(bad(format!(
-                "{} must be a whole number from {lo} to {hi}, got {x}",
-                self.at(key)
-            )));
-        }
-        Ok(Some(x as usize))
-    }
-
-    pub fn object(&self, key: &str) -> Result<Option<Fields<'a>>, InputError> {
-        match self.get(key) {
-            None => Ok(None),
-            Some(Value::Object(m)) => Ok(Some(Fields::new(m, self.at(key)))),
-            Some(v) => Err(bad(format!(
-                "{} must be an object, got {}",
-                self.at(key),
-                describe(v)
-            ))),
-        }
-    }
-
-    pub fn array(&self, key: &str) -> Result<Option<&'a [Value]>, InputError> {
-        match self.get(key) {
-            None => Ok(None),
-            Some(Value::Array(a)) => Ok(Some(a)),
-            Some(v) => Err(bad(format!(
-                "{} must be a list, got {}",
-                self.at(key),
-                describe(v)
-            ))),
-        }
-    }
-
-    /// Two finite numbers `[a, b]`.
-    pub fn finite_pair(&self, key: &str) -> Result<Option<(f64, f64)>, InputError> {
-        self.get(key)
-            .map(|v| finite_pair_value(v, &self.at(key)))
-            .transpose()
-    }
-
-    pub fn bounds(&self, key: &str) -> Result<Bounds, InputError> {
-        match self.get(key) {
-            None => Ok(Bounds::UNBOUNDED),
-            Some(v) => bounds_value(v, &self.at(key)),
-        }
-    }
-
-    /// `{name: number}`, names kept in the order given.
-    pub fn number_map(&self, key: &str) -> Result<Vec<(String, f64)>, InputError> {
-        let Some(obj) = self.object(key)? else {
-            return Ok(Vec::new());
-        };
-        obj.map
-            .iter()
-            .map(|(name, v)| Ok((name.clone(), finite_value(v, &obj.at(name))?)))
-            .collect()
     }
 }
 
-/// Reads a finite number. Non-finite values arrive as strings from the JS wrapper.
-pub fn finite_value(v: &Value, place: &str) -> Result<f64, InputError> {
-    match v {
-        Value::Number(n) => n
-            .as_f64()
-            .filter(|x| x.is_finite())
-            .ok_or_else(|| bad(format!("{place} must be a finite number, got {n}"))),
-        Value::String(s) if matches!(s.as_str(), "NaN" | "Infinity" | "-Infinity") => {
-            Err(InputError::new(
-                "non-finite-input",
-                format!("{place} must be a finite number, got {s}"),
-            ))
-        }
-        Value::Null => Err(bad(format!("{place} is missing"))),
-        other => Err(bad(format!(
-            "{place} must be a number, got {}",
-            describe(other)
-        ))),
-    }
+/// `solveTemplate`: a bundled template, its knowns, its unknown, and how to solve it.
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(
+    deny_unknown_fields,
+    rename_all = "camelCase",
+    expecting = "an object {id, values, unknown, resultUnit?, branch?, useScenarioDefaults?, guesses?, method?, tolerances?, history?, sensitivities?}"
+)]
+pub struct TemplateCall {
+    #[serde(alias = "template")]
+    pub id: String,
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub values: Option<BTreeMap<String, Known>>,
+    pub unknown: String,
+    #[serde(default)]
+    pub result_unit: Option<String>,
+    #[serde(default)]
+    pub branch: Option<String>,
+    #[serde(default)]
+    pub use_scenario_defaults: bool,
+    #[serde(default)]
+    pub guesses: Option<(f64, f64)>,
+    #[serde(default)]
+    pub method: Option<String>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+    #[serde(default)]
+    pub history: bool,
+    #[serde(default)]
+    pub sensitivities: bool,
+    /// Standard uncertainties of knowns (see [`ProblemSpec::uncertainties`]).
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub uncertainties: Option<BTreeMap<String, UncertaintyInput>>,
+    /// How the uncertainty is computed (see [`SolveOptions::uncertainty`]).
+    #[serde(default)]
+    pub uncertainty: Option<UncertaintyOptionsInput>,
 }
 
-/// A bound: a number, `null` or a string infinity (the given open end).
-fn bound_end(v: &Value, place: &str, open: f64) -> Result<f64, InputError> {
-    match v {
-        Value::Null => Ok(open),
-        Value::String(s) if s == "Infinity" => Ok(f64::INFINITY),
-        Value::String(s) if s == "-Infinity" => Ok(f64::NEG_INFINITY),
-        other => finite_value(other, place),
-    }
-}
-
-pub fn bounds_value(v: &Value, place: &str) -> Result<Bounds, InputError> {
-    match v.as_array().map(|a| a.as_slice()) {
-        Some([lo, hi]) => {
-            let lo = bound_end(lo, &format!("{place}[0]"), f64::NEG_INFINITY)?;
-            let hi = bound_end(hi, &format!("{place}[1]"), f64::INFINITY)?;
-            Bounds::new(lo, hi).map_err(|e| InputError::new(e.code, format!("{place}: {e}")))
-        }
-        _ => Err(bad(format!(
-            "{place} must be a list of two bounds [lower, upper], got {}",
-            describe(v)
-        ))),
-    }
-}
-
-pub fn finite_pair_value(v: &Value, place: &str) -> Result<(f64, f64), InputError> {
-    match v.as_array().map(|a| a.as_slice()) {
-        Some([a, b]) => Ok((
-            finite_value(a, &format!("{place}[0]"))?,
-            finite_value(b, &format!("{place}[1]"))?,
-        )),
-        _ => Err(bad(format!(
-            "{place} must be a list of two numbers, got {}",
-            describe(v)
-        ))),
-    }
-}
-
-/// Reads `tolerances: {xAbs, xRel, fAbs, maxEvals}` over the defaults.
-pub fn read_tolerances(f: &Fields) -> Result<Tolerances, InputError> {
-    let mut tol = Tolerances::default();
-    if let Some(t) = f.object("tolerances")? {
-        t.only(&["xAbs", "xRel", "fAbs", "maxEvals"])?;
-        for (key, slot) in [
-            ("xAbs", &mut tol.x_abs),
-            ("xRel", &mut tol.x_rel),
-            ("fAbs", &mut tol.f_abs),
-        ] {
-            if let Some(v) = t.finite(key)? {
-                if v < 0.0 {
-                    return Err(InputError::new(
-                        "bad-tolerance",
-                        format!("{} must be >= 0, got {v}", t.at(key)),
-                    ));
-                }
-                *slot = v;
-            }
-        }
-        if let Some(n) = t.count("maxEvals", 2, MAX_EVALS)? {
-            tol.max_evals = n;
+impl TemplateCall {
+    fn spec(&self) -> ProblemSpec {
+        ProblemSpec {
+            template: Some(self.id.clone()),
+            values: self.values.clone(),
+            unknown: Some(self.unknown.clone()),
+            result_unit: self.result_unit.clone(),
+            branch: self.branch.clone(),
+            use_scenario_defaults: self.use_scenario_defaults,
+            uncertainties: self.uncertainties.clone(),
+            ..ProblemSpec::default()
         }
     }
-    tol.validate()?;
-    Ok(tol)
 }
 
-pub fn read_method(f: &Fields) -> Result<MethodKind, InputError> {
-    match f.string("method")? {
-        None => Ok(MethodKind::Auto),
-        Some(code) => MethodKind::from_code(code),
+/// `sweep`: a problem (a template or equations, as in [`ProblemSpec`]) and the sweep
+/// of one of its knowns. `bounds` bounds the unknown of equations.
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(
+    deny_unknown_fields,
+    rename_all = "camelCase",
+    expecting = "an object {equations or id, knowns or values, unknown?, input, from, to, points, ...}"
+)]
+pub struct SweepCall {
+    #[serde(default, alias = "template")]
+    pub id: Option<String>,
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub values: Option<BTreeMap<String, Known>>,
+    #[serde(default)]
+    pub result_unit: Option<String>,
+    #[serde(default)]
+    pub branch: Option<String>,
+    #[serde(default)]
+    pub use_scenario_defaults: bool,
+    #[serde(default)]
+    pub equations: Option<String>,
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub knowns: Option<BTreeMap<String, Quantity>>,
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub units: Option<BTreeMap<String, String>>,
+    #[serde(default)]
+    pub unknown: Option<String>,
+    #[serde(default)]
+    pub bounds: Option<BoundsInput>,
+    pub input: String,
+    pub from: f64,
+    pub to: f64,
+    pub points: f64,
+    #[serde(default)]
+    pub spacing: Option<String>,
+    #[serde(default)]
+    pub guesses: Option<(f64, f64)>,
+    #[serde(default)]
+    pub method: Option<String>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+}
+
+/// `findRoots` of a text equation: the problem and the range `[lo, hi]` in the
+/// unknown's unit.
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(
+    deny_unknown_fields,
+    rename_all = "camelCase",
+    expecting = "an object {equations, knowns?, units?, unknown?, range, samples?, tolerances?}"
+)]
+pub struct RootsCall {
+    pub equations: String,
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub knowns: Option<BTreeMap<String, Quantity>>,
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub units: Option<BTreeMap<String, String>>,
+    #[serde(default)]
+    pub unknown: Option<String>,
+    pub range: (f64, f64),
+    #[serde(default)]
+    pub samples: Option<f64>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+    /// Prove every root (regions unique / none / undecided) instead of sampling.
+    #[serde(default)]
+    pub proven: bool,
+    /// With `proven`: the most regions examined.
+    #[serde(default)]
+    pub max_regions: Option<f64>,
+}
+
+/// `findRoots` of a function: the range and the scan's settings.
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(
+    deny_unknown_fields,
+    rename_all = "camelCase",
+    expecting = "an object {range, samples?, tolerances?}"
+)]
+pub struct FunctionRootsCall {
+    pub range: (f64, f64),
+    #[serde(default)]
+    pub samples: Option<f64>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+}
+
+/// A scalar solve of a function (`solveFunction`, `Stepper.create`).
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(
+    deny_unknown_fields,
+    rename_all = "camelCase",
+    expecting = "an object {guesses or bracket, method?, tolerances?, bounds?, history?}"
+)]
+pub struct ScalarCall {
+    #[serde(default)]
+    pub guesses: Option<(f64, f64)>,
+    #[serde(default)]
+    pub bracket: Option<(f64, f64)>,
+    #[serde(default)]
+    pub method: Option<String>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+    #[serde(default)]
+    pub bounds: Option<BoundsInput>,
+    #[serde(default)]
+    pub history: bool,
+}
+
+/// A system of a function (`solveSystemFunction`).
+#[derive(Debug, Clone, Default, Deserialize)]
+#[serde(
+    deny_unknown_fields,
+    rename_all = "camelCase",
+    expecting = "an object {x0, tolerances?, bounds?, history?}"
+)]
+pub struct SystemCall {
+    #[serde(deserialize_with = "system_list")]
+    pub x0: Vec<f64>,
+    #[serde(default)]
+    pub tolerances: Option<TolerancesInput>,
+    #[serde(default, deserialize_with = "bounded::opt_vec")]
+    pub bounds: Option<Vec<BoundsInput>>,
+    #[serde(default)]
+    pub history: bool,
+}
+
+fn system_list<'de, D: serde::Deserializer<'de>>(d: D) -> Result<Vec<f64>, D::Error> {
+    bounded::opt_vec(d).map(Option::unwrap_or_default)
+}
+
+// ---------------------------------------------------------------------------------------
+// Results that are not a problem's
+
+/// The result of a scalar solve of a function or stepper.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct ScalarReport {
+    pub root: f64,
+    pub residual: f64,
+    pub residual_at: f64,
+    pub converged: bool,
+    pub status: &'static str,
+    pub message: &'static str,
+    pub evaluations: usize,
+    pub iterations: usize,
+    pub checks: usize,
+    pub bracket: Option<[f64; 2]>,
+    pub certificate: Option<CertificateReport>,
+    pub history: Vec<HistoryReport>,
+    pub history_dropped: usize,
+}
+
+impl ScalarReport {
+    pub fn of(s: &Solution) -> ScalarReport {
+        let c = Conversion::NONE;
+        ScalarReport {
+            root: s.root,
+            residual: s.residual,
+            residual_at: s.residual_at,
+            converged: s.converged,
+            status: s.status.code(),
+            message: s.message(),
+            evaluations: s.evaluations,
+            iterations: s.iterations,
+            checks: s.checks,
+            bracket: s.bracket.map(|(a, b)| [a, b]),
+            certificate: s
+                .certificate
+                .as_ref()
+                .map(|k| CertificateReport::scalar(k, &c)),
+            history: HistoryReport::rows(&s.history, &c),
+            history_dropped: s.history_dropped,
+        }
     }
 }
 
-/// Reads method, tolerances, bounds (under `bounds_key`) and history into [`Options`].
-pub fn read_options(f: &Fields, bounds_key: Option<&str>) -> Result<Options, InputError> {
-    Ok(Options {
-        method: read_method(f)?,
-        tol: read_tolerances(f)?,
-        bounds: match bounds_key {
-            Some(k) => f.bounds(k)?,
-            None => Bounds::UNBOUNDED,
+/// The result of a system of a function.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct SystemReport {
+    pub roots: Vec<f64>,
+    pub residuals: Vec<f64>,
+    pub residual: f64,
+    pub converged: bool,
+    pub status: &'static str,
+    pub message: &'static str,
+    pub evaluations: usize,
+    pub iterations: usize,
+    pub certificate: Option<CertificateReport>,
+    pub history: Vec<SystemHistoryReport>,
+    pub history_dropped: usize,
+}
+
+/// What `checkEquation` says about a text.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct CheckReport {
+    pub ok: bool,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub variables: Option<Vec<String>>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub definitions: Option<Vec<String>>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub equations: Option<usize>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub code: Option<&'static str>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub message: Option<String>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub position: Option<usize>,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub caret: Option<String>,
+}
+
+/// One dimension and its units, SI unit first.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct DimensionUnits {
+    pub dimension: &'static str,
+    pub units: Vec<&'static str>,
+}
+
+/// What a problem's `sensitivities` gives: the answer and how it moves with each input.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct SensitivitiesReport {
+    pub converged: bool,
+    pub status: &'static str,
+    pub message: &'static str,
+    pub root: Option<f64>,
+    pub unit: Option<String>,
+    pub sensitivities: Vec<crate::problem::report::SensitivityReport>,
+    pub evaluations: usize,
+}
+
+// ---------------------------------------------------------------------------------------
+// Problems
+
+fn solve_options(
+    method: &Option<String>,
+    tolerances: &Option<TolerancesInput>,
+    guesses: Option<(f64, f64)>,
+    history: bool,
+    sensitivities: bool,
+    uncertainty: &Option<UncertaintyOptionsInput>,
+) -> SolveOptions {
+    SolveOptions {
+        method: method.clone(),
+        tolerances: tolerances.clone(),
+        guesses,
+        history,
+        sensitivities,
+        uncertainty: uncertainty.clone(),
+    }
+}
+
+/// Solves a text equation or set (a [`Problem`] compiled and solved once).
+pub fn solve_equation(req: &EquationCall) -> Result<SolveReport, InputError> {
+    let problem = Problem::compile(&req.spec())?;
+    problem.solve(&solve_options(
+        &req.method,
+        &req.tolerances,
+        req.guesses,
+        req.history,
+        req.sensitivities,
+        &req.uncertainty,
+    ))
+}
+
+/// Solves a bundled template (a [`Problem`] compiled and solved once).
+pub fn solve_template(req: &TemplateCall) -> Result<SolveReport, InputError> {
+    let problem = Problem::compile(&req.spec())?;
+    problem.solve(&solve_options(
+        &req.method,
+        &req.tolerances,
+        req.guesses,
+        req.history,
+        req.sensitivities,
+        &req.uncertainty,
+    ))
+}
+
+/// Solves one unknown at evenly spaced values of one known, each solve starting from
+/// the previous root, in one go.
+pub fn sweep(req: &SweepCall) -> Result<SweepReport, InputError> {
+    let mut knowns = req.knowns.clone();
+    if let Some(k) = knowns.as_mut() {
+        k.entry(req.input.clone())
+            .or_insert(Quantity::Number(req.from));
+    } else if req.equations.is_some() {
+        knowns = Some(BTreeMap::from([(
+            req.input.clone(),
+            Quantity::Number(req.from),
+        )]));
+    }
+    let mut spec = ProblemSpec {
+        template: req.id.clone(),
+        values: req.values.clone(),
+        result_unit: req.result_unit.clone(),
+        branch: req.branch.clone(),
+        use_scenario_defaults: req.use_scenario_defaults,
+        equations: req.equations.clone(),
+        knowns,
+        units: req.units.clone(),
+        unknown: req.unknown.clone(),
+        unknowns: None,
+        uncertainties: None,
+    };
+    if let Some(b) = req.bounds {
+        if req.equations.is_none() {
+            return Err(bad(
+                "request.bounds belongs to equations of one's own; a template's unknown has its own bounds",
+            ));
+        }
+        // The unknown may be implicit: compile once to learn its name.
+        let name = Problem::compile(&spec)?
+            .unknown()
+            .map(str::to_string)
+            .ok_or_else(|| {
+                InputError::new(
+                    "needs-one-unknown",
+                    "a sweep needs a problem with one unknown",
+                )
+            })?;
+        spec.unknown = None;
+        spec.unknowns = Some(vec![UnknownInput::Spec(
+            crate::problem::spec::UnknownObject {
+                name,
+                guesses: None,
+                bounds: Some(b),
+                unit: None,
+            },
+        )]);
+    }
+    let problem = Problem::compile(&spec)?;
+    let mut sweep = problem.sweep(&SweepSpec {
+        input: req.input.clone(),
+        from: req.from,
+        to: req.to,
+        points: req.points,
+        spacing: req.spacing.clone(),
+        method: req.method.clone(),
+        tolerances: req.tolerances.clone(),
+        guesses: req.guesses,
+    })?;
+    let points = sweep.report().points;
+    Ok(sweep.advance(points)?.clone())
+}
+
+/// All roots in a range of a text equation with one unknown.
+pub fn find_roots(req: &RootsCall) -> Result<RootsReport, InputError> {
+    let spec = ProblemSpec {
+        equations: Some(req.equations.clone()),
+        knowns: req.knowns.clone(),
+        units: req.units.clone(),
+        unknown: req.unknown.clone(),
+        ..ProblemSpec::default()
+    };
+    let problem = Problem::compile(&spec)?;
+    problem.roots(
+        req.range.0,
+        req.range.1,
+        &RootsOptions {
+            samples: req.samples,
+            tolerances: req.tolerances.clone(),
+            proven: req.proven,
+            max_regions: req.max_regions,
         },
-        record_history: f.boolean("history")?,
-    })
+    )
 }
 
-/// Reads `guesses` or `bracket` (exactly one of them).
-pub fn read_start(f: &Fields) -> Result<Start, InputError> {
-    match (f.finite_pair("guesses")?, f.finite_pair("bracket")?) {
-        (Some((a, b)), None) => Ok(Start::Guesses(a, b)),
-        (None, Some((a, b))) => Ok(Start::Bracket(a, b)),
-        (Some(_), Some(_)) => Err(bad(format!(
-            "give either {0}.guesses or {0}.bracket, not both",
-            f.place
-        ))),
-        (None, None) => Err(bad(format!(
-            "{0}.guesses or {0}.bracket is missing: give two starting points",
-            f.place
-        ))),
+/// All roots in a range of a Rust closure (the native counterpart of `findRoots` with
+/// a JS function).
+pub fn find_roots_function(
+    req: &FunctionRootsCall,
+    mut f: impl FnMut(f64) -> f64,
+) -> Result<RootsReport, InputError> {
+    let (lo, hi) = req.range;
+    crate::error::require_finite(lo, "request.range[0]")?;
+    crate::error::require_finite(hi, "request.range[1]")?;
+    let mut scan = ScanOptions {
+        tol: TolerancesInput::read(req.tolerances.as_ref(), "request.tolerances")?,
+        ..ScanOptions::default()
+    };
+    if let Some(n) = req.samples {
+        let max = roots_in_range::MAX_SAMPLES;
+        if !(n.fract() == 0.0 && (3.0..=max as f64).contains(&n)) {
+            return Err(InputError::new(
+                "bad-samples",
+                format!("request.samples must be a whole number from 3 to {max}, got {n}"),
+            ));
+        }
+        scan.samples = n as usize;
+    }
+    let found = roots_in_range::roots_in_range(lo, hi, &scan, erase(&mut f))?;
+    let labels = vec![None; found.roots.len()];
+    Ok(RootsReport::from_scan(
+        &found,
+        &Conversion::NONE,
+        labels,
+        None,
+    ))
+}
+
+/// A compiled problem kept for many calls (the JS `Problem` class).
+pub struct ProblemSession {
+    problem: Rc<Problem>,
+}
+
+impl ProblemSession {
+    pub fn compile(spec: &ProblemSpec) -> Result<ProblemSession, InputError> {
+        Ok(ProblemSession {
+            problem: Rc::new(Problem::compile(spec)?),
+        })
+    }
+
+    pub fn problem(&self) -> &Problem {
+        &self.problem
+    }
+
+    pub fn unknown(&self) -> Option<String> {
+        self.problem.unknown().map(str::to_string)
+    }
+
+    pub fn unit(&self) -> Option<String> {
+        self.problem.unit()
+    }
+
+    pub fn solve(&self, opts: &SolveOptions) -> Result<SolveReport, InputError> {
+        self.problem.solve(opts)
+    }
+
+    pub fn residual(&self, x: f64) -> Result<f64, InputError> {
+        self.problem.residual(x)
+    }
+
+    /// `n` is a JavaScript number: checked to be a whole number in range first.
+    pub fn sample(&self, lo: f64, hi: f64, n: f64) -> Result<SampleReport, InputError> {
+        let max = crate::problem::MAX_SAMPLE_POINTS;
+        if !(n.fract() == 0.0 && (2.0..=max as f64).contains(&n)) {
+            return Err(InputError::new(
+                "bad-samples",
+                format!("the number of points must be a whole number from 2 to {max}, got {n}"),
+            ));
+        }
+        self.problem.sample(lo, hi, n as usize)
+    }
+
+    pub fn roots(&self, lo: f64, hi: f64, opts: &RootsOptions) -> Result<RootsReport, InputError> {
+        self.problem.roots(lo, hi, opts)
+    }
+
+    /// Solves with sensitivities and gives them with the answer.
+    pub fn sensitivities(&self, opts: &SolveOptions) -> Result<SensitivitiesReport, InputError> {
+        let r = self.problem.solve(&SolveOptions {
+            sensitivities: true,
+            ..opts.clone()
+        })?;
+        Ok(SensitivitiesReport {
+            converged: r.converged,
+            status: r.status,
+            message: r.message,
+            root: r.root,
+            unit: r.unit,
+            sensitivities: r.sensitivities,
+            evaluations: r.sensitivity_evaluations,
+        })
+    }
+
+    pub fn start_sweep(&self, spec: &SweepSpec) -> Result<SweepSession, InputError> {
+        Ok(SweepSession {
+            sweep: Sweep::shared(Rc::clone(&self.problem), spec)?,
+        })
+    }
+}
+
+/// Largest chunk of a sweep advanced by one call.
+pub const MAX_SWEEP_CHUNK: usize = MAX_SWEEP_POINTS;
+
+/// A sweep run in chunks (the JS `Problem.sweep`), each call giving only its new points.
+pub struct SweepSession {
+    sweep: Sweep<'static>,
+}
+
+impl SweepSession {
+    /// Solves up to `chunk` more points (a JavaScript number, checked) and gives them.
+    pub fn advance(&mut self, chunk: f64) -> Result<SweepReport, InputError> {
+        if !(chunk.fract() == 0.0 && (1.0..=MAX_SWEEP_CHUNK as f64).contains(&chunk)) {
+            return Err(InputError::new(
+                "bad-request",
+                format!(
+                    "the chunk must be a whole number from 1 to {MAX_SWEEP_CHUNK}, got {chunk}"
+                ),
+            ));
+        }
+        let from = self.sweep.report().done;
+        let r = self.sweep.advance(chunk as usize)?;
+        Ok(SweepReport {
+            input_name: r.input_name.clone(),
+            input_unit: r.input_unit.clone(),
+            unit: r.unit.clone(),
+            unknown: r.unknown.clone(),
+            input: r.input[from..].to_vec(),
+            root: r.root[from..].to_vec(),
+            status: r.status[from..].to_vec(),
+            converged: r.converged[from..].to_vec(),
+            evaluations: r.evaluations[from..].to_vec(),
+            total_evaluations: r.evaluations[from..].iter().sum(),
+            done: r.done,
+            points: r.points,
+        })
+    }
+
+    pub fn is_done(&self) -> bool {
+        self.sweep.is_done()
+    }
+
+    pub fn done(&self) -> usize {
+        self.sweep.report().done
+    }
+
+    pub fn points(&self) -> usize {
+        self.sweep.report().points
     }
 }
 
 // ---------------------------------------------------------------------------------------
-// Scalar options and the ask–tell stepper
+// Functions and the ask–tell stepper
 
-const SCALAR_FIELDS: [&str; 6] = [
-    "guesses",
-    "bracket",
-    "method",
-    "tolerances",
-    "bounds",
-    "history",
-];
-
-/// Reads the options of a scalar solve of a JS function or a stepper.
-pub fn scalar_setup(request: &str) -> Result<(Start, Options), InputError> {
-    let map = parse_request(request)?;
-    let f = Fields::new(&map, "options");
-    f.only(&SCALAR_FIELDS)?;
-    let start = read_start(&f)?;
-    let options = read_options(&f, Some("bounds"))?;
+/// Reads the start and options of a scalar solve of a function or a stepper.
+pub fn scalar_setup(req: &ScalarCall) -> Result<(Start, Options), InputError> {
+    let start = match (req.guesses, req.bracket) {
+        (Some((a, b)), None) => Start::Guesses(a, b),
+        (None, Some((a, b))) => Start::Bracket(a, b),
+        (Some(_), Some(_)) => {
+            return Err(bad(
+                "give either options.guesses or options.bracket, not both",
+            ))
+        }
+        (None, None) => {
+            return Err(bad(
+                "options.guesses or options.bracket is missing: give two starting points",
+            ))
+        }
+    };
+    for (name, p) in [("guesses", req.guesses), ("bracket", req.bracket)] {
+        if let Some((a, b)) = p {
+            crate::error::require_finite(a, &format!("options.{name}[0]"))?;
+            crate::error::require_finite(b, &format!("options.{name}[1]"))?;
+        }
+    }
+    let options = Options {
+        method: match &req.method {
+            Some(m) => MethodKind::from_code(m)?,
+            None => MethodKind::Auto,
+        },
+        tol: TolerancesInput::read(req.tolerances.as_ref(), "options.tolerances")?,
+        bounds: crate::problem::spec::bounds(req.bounds, "options.bounds")?,
+        record_history: req.history,
+    };
     crate::methods::validate(start, &options)?;
     Ok((start, options))
 }
 
-/// Solves f(x) = 0 for a Rust closure with options given as JSON (the native
-/// counterpart of `solveFunction`).
-pub fn solve_function(request: &str, mut f: impl FnMut(f64) -> f64) -> Result<String, InputError> {
-    let (start, options) = scalar_setup(request)?;
+/// Solves f(x) = 0 for a Rust closure (the native counterpart of `solveFunction`).
+pub fn solve_function(
+    req: &ScalarCall,
+    mut f: impl FnMut(f64) -> f64,
+) -> Result<ScalarReport, InputError> {
+    let (start, options) = scalar_setup(req)?;
     let solution = crate::stepper::solve(start, &options, erase(&mut f))?;
-    Ok(text_of(solution_value(&solution)))
+    Ok(ScalarReport::of(&solution))
 }
 
 /// The ask–tell stepper behind the JS `Stepper` class.
@@ -474,8 +746,8 @@ pub struct StepperSession {
 }
 
 impl StepperSession {
-    pub fn create(request: &str) -> Result<StepperSession, InputError> {
-        let (start, options) = scalar_setup(request)?;
+    pub fn create(req: &ScalarCall) -> Result<StepperSession, InputError> {
+        let (start, options) = scalar_setup(req)?;
         Ok(StepperSession {
             stepper: Stepper::new(start, &options)?,
         })
@@ -516,570 +788,43 @@ impl StepperSession {
         self.stepper.evaluations()
     }
 
-    /// The result as JSON once done.
-    pub fn result(&self) -> Option<String> {
-        self.stepper.solution().map(|s| text_of(solution_value(s)))
+    /// The result once done.
+    pub fn result(&self) -> Option<ScalarReport> {
+        self.stepper.solution().map(ScalarReport::of)
     }
 
-    /// The history rows so far as a JSON list (empty unless history was asked for).
-    pub fn history(&self) -> String {
-        text_of(history_value(&self.stepper.history().0))
+    /// The history rows so far (empty unless history was asked for).
+    pub fn history(&self) -> Vec<HistoryReport> {
+        HistoryReport::rows(&self.stepper.history().0, &Conversion::NONE)
     }
 
+    /// The set-up and every value told, as JSON text (a record format of its own).
     pub fn save(&self) -> String {
         self.stepper.save()
     }
 }
 
-// ---------------------------------------------------------------------------------------
-// Units
-
-/// Longest unit symbol accepted, in characters.
-pub const MAX_UNIT_CHARS: usize = 64;
-
-fn check_unit_text(unit: &str, what: &str) -> Result<(), InputError> {
-    let n = unit.chars().count();
-    if n > MAX_UNIT_CHARS {
-        return Err(InputError::new(
-            "unknown-unit",
-            format!("{what} unit is {n} characters long; no unit is longer than {MAX_UNIT_CHARS}"),
-        ));
-    }
-    Ok(())
-}
-
-/// Converts `value` between two units of the same dimension.
-pub fn convert_unit(value: f64, from: &str, to: &str) -> Result<f64, InputError> {
-    check_unit_text(from, "the from")?;
-    check_unit_text(to, "the to")?;
-    crate::error::require_finite(value, "the value to convert")?;
-    crate::units::convert(value, from, to)
-}
-
-/// Every dimension with its units, SI unit first: `[{dimension, units: [..]}]`.
-pub fn units_catalogue() -> String {
-    let list: Vec<Value> = crate::units::dimensions()
-        .into_iter()
-        .map(|d| json!({ "dimension": d, "units": crate::units::units_of(d) }))
-        .collect();
-    text_of(Value::Array(list))
-}
-
-// ---------------------------------------------------------------------------------------
-// Text equations
-
-fn check_equation_length(text: &str) -> Result<(), InputError> {
-    let n = text.chars().count();
-    if n > MAX_EQUATION_CHARS {
-        return Err(InputError::new(
-            "equation-too-long",
-            format!("the equation text is {n} characters long; the limit is {MAX_EQUATION_CHARS}"),
-        ));
-    }
-    Ok(())
-}
-
-fn parse_set(text: &str) -> Result<EquationSet, InputError> {
-    check_equation_length(text)?;
-    EquationSet::parse(text)
-}
-
-/// Parses an equation text without solving it: `{ok: true, variables, definitions,
-/// equations}` or `{ok: false, code, message, position, caret}`.
-pub fn check_equation(text: &str) -> String {
-    match parse_set(text) {
-        Ok(set) => text_of(json!({
-            "ok": true,
-            "variables": set.variables(),
-            "definitions": set.definition_names(),
-            "equations": set.equation_count(),
-        })),
-        Err(e) => text_of(json!({
-            "ok": false,
-            "code": e.code,
-            "message": e.message,
-            "position": e.position,
-            "caret": e.position.map(|p| equations::caret(text, p)),
-        })),
-    }
-}
-
-fn name_list(names: &[String]) -> String {
-    names.join(", ")
-}
-
-/// The variables not given a value, for requests that leave the unknowns implicit.
-fn implicit_unknowns(set: &EquationSet, given: &[&str]) -> Vec<String> {
-    set.variables()
-        .into_iter()
-        .filter(|v| !given.contains(&v.as_str()))
-        .collect()
-}
-
-fn the_one_unknown(f: &Fields, set: &EquationSet, given: &[&str]) -> Result<String, InputError> {
-    if let Some(name) = f.string("unknown")? {
-        return Ok(name.to_string());
-    }
-    let free = implicit_unknowns(set, given);
-    match free.as_slice() {
-        [one] => Ok(one.clone()),
-        [] => Err(InputError::new(
-            "no-unknown",
-            format!("{}.unknown is missing and every variable has a value", f.place),
-        )),
-        _ => Err(InputError::new(
-            "no-unknown",
-            format!(
-                "{}.unknown is missing and several variables have no value ({}); name the one to solve for",
-                f.place,
-                name_list(&free)
-            ),
-        )),
-    }
-}
-
-fn read_unknowns(
-    f: &Fields,
-    set: &EquationSet,
-    knowns: &[(String, f64)],
-) -> Result<Vec<UnknownSpec>, InputError> {
-    let Some(list) = f.array("unknowns")? else {
-        let given: Vec<&str> = knowns.iter().map(|(n, _)| n.as_str()).collect();
-        return Ok(implicit_unknowns(set, &given)
-            .iter()
-            .map(|n| UnknownSpec::named(n))
-            .collect());
-    };
-    if list.len() > equations::solve::MAX_UNKNOWNS {
-        return Err(InputError::new(
-            "too-many-unknowns",
-            format!(
-                "{} unknowns asked for; at most {} are solved together",
-                list.len(),
-                equations::solve::MAX_UNKNOWNS
-            ),
-        ));
-    }
-    let mut out = Vec::with_capacity(list.len());
-    for (i, item) in list.iter().enumerate() {
-        let place = format!("{}.unknowns[{i}]", f.place);
-        match item {
-            Value::String(name) => out.push(UnknownSpec::named(name)),
-            Value::Object(m) => {
-                let u = Fields::new(m, place);
-                u.only(&["name", "guesses", "bounds"])?;
-                out.push(UnknownSpec {
-                    name: u.required_string("name")?.to_string(),
-                    guesses: u.finite_pair("guesses")?,
-                    bounds: u.bounds("bounds")?,
-                });
-            }
-            other => {
-                return Err(bad(format!(
-                    "{place} must be a name or {{name, guesses, bounds}}, got {}",
-                    describe(other)
-                )))
-            }
-        }
-    }
-    Ok(out)
-}
-
-/// System history rows `(k, x, residual norm, kind)` as JSON.
-fn system_rows<'a>(rows: impl Iterator<Item = (usize, &'a [f64], f64, StepKind)>) -> Value {
-    Value::Array(
-        rows.map(|(k, x, norm, kind)| {
-            json!({
-                "k": k,
-                "x": nums(x),
-                "residualNorm": num(norm),
-                "kind": kind.code(),
-            })
-        })
-        .collect(),
-    )
-}
-
-fn system_history_value(rows: &[SystemHistoryRow]) -> Value {
-    system_rows(
-        rows.iter()
-            .map(|r| (r.k, r.x.as_slice(), r.residual_norm, r.kind)),
-    )
-}
-
-fn max_abs(v: &[f64]) -> f64 {
-    v.iter().fold(0.0f64, |m, r| {
-        if r.is_nan() || m.is_nan() {
-            f64::NAN
-        } else {
-            m.max(r.abs())
-        }
-    })
-}
-
-fn named_values(pairs: &[(String, f64)]) -> Value {
-    Value::Object(pairs.iter().map(|(n, v)| (n.clone(), num(*v))).collect())
-}
-
-/// A [`SetSolution`] as a JSON object.
-pub fn set_solution_value(s: &SetSolution) -> Value {
-    let root = match s.unknowns.as_slice() {
-        [(_, v)] => num(*v),
-        _ => Value::Null,
-    };
-    json!({
-        "unknowns": named_values(&s.unknowns),
-        "root": root,
-        "residual": num(max_abs(&s.residuals)),
-        "residuals": nums(&s.residuals),
-        "converged": s.converged,
-        "status": s.status.code(),
-        "message": s.status.diagnosis(),
-        "evaluations": s.evaluations,
-        "iterations": s.iterations,
-        "bracket": pair_value(s.scalar.as_ref().and_then(|x| x.bracket)),
-        "certificate": certificate_value(match s.blocks.as_slice() {
-            [only] => only.certificate.as_ref(),
-            _ => None,
-        }),
-        "history": history_value(s.scalar.as_ref().map_or(&[], |x| &x.history)),
-        "historyDropped": s.scalar.as_ref().map_or(0, |x| x.history_dropped),
-        "systemHistory": system_history_value(s.system.as_ref().map_or(&[], |x| &x.history)),
-        "definitions": named_values(&s.definitions),
-        "sensitivities": Value::Array(s.sensitivities.iter().map(|d| json!({
-            "unknown": d.unknown,
-            "input": d.input,
-            "derivative": num(d.derivative),
-            "relative": num(d.relative),
-        })).collect()),
-        "sensitivityEvaluations": s.sensitivity_evaluations,
-        "blocks": Value::Array(s.blocks.iter().map(|b| json!({
-            "unknowns": b.unknowns,
-            "equations": b.equations,
-            "converged": b.converged,
-            "status": b.status.code(),
-            "evaluations": b.evaluations,
-            "iterations": b.iterations,
-            "certificate": certificate_value(b.certificate.as_ref()),
-        })).collect()),
-    })
-}
-
-const EQUATION_FIELDS: [&str; 8] = [
-    "equations",
-    "knowns",
-    "unknowns",
-    "units",
-    "method",
-    "tolerances",
-    "history",
-    "sensitivities",
-];
-
-/// `{name: unit text}`, names kept in the order given.
-fn unit_map(f: &Fields, key: &str) -> Result<Vec<(String, String)>, InputError> {
-    let Some(obj) = f.object(key)? else {
-        return Ok(Vec::new());
-    };
-    obj.map
-        .iter()
-        .map(|(name, v)| match v {
-            Value::String(unit) => Ok((name.clone(), unit.clone())),
-            other => Err(bad(format!(
-                "{} must be a unit such as \"m\" or \"gpm\", got {}",
-                obj.at(name),
-                describe(other)
-            ))),
-        })
-        .collect()
-}
-
-/// Solves a text equation or set: `{equations, knowns?, unknowns?, units?, method?,
-/// tolerances?, history?, sensitivities?}`. With `units` (`{name: unit}`), values,
-/// guesses and bounds are in those units, the dimensions are checked, the solve runs
-/// in SI and the results come back in those units (see `equations::quantities`).
-pub fn solve_equation(request: &str) -> Result<String, InputError> {
-    let map = parse_request(request)?;
-    let f = Fields::new(&map, "request");
-    f.only(&EQUATION_FIELDS)?;
-    let set = parse_set(f.required_string("equations")?)?;
-    let knowns = f.number_map("knowns")?;
-    let unknowns = read_unknowns(&f, &set, &knowns)?;
-    let options = read_options(&f, None)?;
-    let units = unit_map(&f, "units")?;
-    let named: Vec<&str> = knowns
-        .iter()
-        .map(|(n, _)| n.as_str())
-        .chain(unknowns.iter().map(|u| u.name.as_str()))
-        .collect();
-    let checked = VariableUnits::new(&set, &units, &named)?;
-    let solution = quantities::solve_in_units(
-        &set,
-        &knowns,
-        &unknowns,
-        &options,
-        f.boolean("sensitivities")?,
-        &checked,
-    )?;
-    let mut value = set_solution_value(&solution);
-    if let (Value::Object(out), false) = (&mut value, units.is_empty()) {
-        let echo = units.into_iter().map(|(n, u)| (n, Value::String(u)));
-        out.insert("units".into(), Value::Object(echo.collect()));
-    }
-    Ok(text_of(value))
-}
-
-// ---------------------------------------------------------------------------------------
-// Sweeps
-
-/// Most points in one sweep.
-pub const MAX_SWEEP_POINTS: usize = 100_000;
-
-const SWEEP_FIELDS: [&str; 11] = [
-    "equations",
-    "knowns",
-    "unknown",
-    "input",
-    "from",
-    "to",
-    "points",
-    "guesses",
-    "bounds",
-    "method",
-    "tolerances",
-];
-
-/// Two starting points for the next solve of a sweep: the previous root and a step
-/// along the trend of the last two roots (or a small relative step), kept in bounds.
-fn continuation_guesses(prev: f64, before: Option<f64>, bounds: Bounds) -> Option<(f64, f64)> {
-    let trend = before
-        .map(|b| prev - b)
-        .filter(|d| d.is_finite() && *d != 0.0);
-    let step = trend.unwrap_or(1e-4 * prev.abs().max(1.0));
-    let a = bounds.clamp(prev);
-    for b in [
-        a + step,
-        a - step,
-        a + 1e-4 * a.abs().max(1.0),
-        a - 1e-4 * a.abs().max(1.0),
-    ] {
-        let b = bounds.clamp(b);
-        if b != a && b.is_finite() {
-            return Some((a, b));
-        }
-    }
-    None
-}
-
-/// Solves one unknown at evenly spaced values of one known, each solve starting from
-/// the previous root: `{equations, knowns?, unknown?, input, from, to, points, guesses?,
-/// bounds?, method?, tolerances?}` gives arrays `input`, `root`, `status`, `converged`,
-/// `evaluations`.
-pub fn sweep(request: &str) -> Result<String, InputError> {
-    let map = parse_request(request)?;
-    let f = Fields::new(&map, "request");
-    f.only(&SWEEP_FIELDS)?;
-    let set = parse_set(f.required_string("equations")?)?;
-    let input = f.required_string("input")?;
-    let mut knowns: Vec<(String, f64)> = f
-        .number_map("knowns")?
-        .into_iter()
-        .filter(|(n, _)| n != input)
-        .collect();
-    let given: Vec<&str> = knowns
-        .iter()
-        .map(|(n, _)| n.as_str())
-        .chain([input])
-        .collect();
-    let unknown = the_one_unknown(&f, &set, &given)?;
-    let from = f.required_finite("from")?;
-    let to = f.required_finite("to")?;
-    let points = f
-        .count("points", 2, MAX_SWEEP_POINTS)?
-        .ok_or_else(|| bad("request.points is missing"))?;
-    let mut options = read_options(&f, Some("bounds"))?;
-    options.record_history = false;
-    let first = match f.finite_pair("guesses")? {
-        Some(g) => g,
-        None => equations::default_guesses(options.bounds),
-    };
-    crate::methods::validate(Start::Guesses(first.0, first.1), &options)?;
-    knowns.push((input.to_string(), from));
-    let slot = knowns.len() - 1;
-
-    let mut xs = Vec::with_capacity(points);
-    let mut roots = Vec::with_capacity(points);
-    let mut statuses = Vec::with_capacity(points);
-    let mut converged = Vec::with_capacity(points);
-    let mut evaluations = Vec::with_capacity(points);
-    let mut last: Option<f64> = None;
-    let mut before: Option<f64> = None;
-    for i in 0..points {
-        let value = if i + 1 == points {
-            to
-        } else {
-            from + (to - from) * (i as f64 / (points - 1) as f64)
-        };
-        knowns[slot].1 = value;
-        let mut residual = set.residual_fn(&knowns, &unknown)?;
-        let (a, b) = last
-            .and_then(|r| continuation_guesses(r, before, options.bounds))
-            .unwrap_or(first);
-        let s = crate::stepper::solve(Start::Guesses(a, b), &options, erase(&mut residual))
-            .map_err(|e| InputError {
-                message: format!("at {input} = {value}: {}", e.message),
-                ..e
-            })?;
-        if s.converged {
-            before = last;
-            last = Some(s.root);
-        } else {
-            before = None;
-            last = None;
-        }
-        xs.push(value);
-        roots.push(s.root);
-        statuses.push(s.status.code());
-        converged.push(s.converged);
-        evaluations.push(s.evaluations);
-    }
-    Ok(text_of(json!({
-        "input": nums(&xs),
-        "root": nums(&roots),
-        "status": statuses,
-        "converged": converged,
-        "evaluations": evaluations,
-        "totalEvaluations": evaluations.iter().sum::<usize>(),
-        "unknown": unknown,
-        "inputName": input,
-    })))
-}
-
-// ---------------------------------------------------------------------------------------
-// All roots in a range
-
-const ROOTS_FIELDS: [&str; 6] = [
-    "range",
-    "equations",
-    "knowns",
-    "unknown",
-    "samples",
-    "tolerances",
-];
-
-fn scan_setup(f: &Fields) -> Result<(f64, f64, ScanOptions), InputError> {
-    let (lo, hi) = f
-        .finite_pair("range")?
-        .ok_or_else(|| bad(format!("{}.range is missing: give [lower, upper]", f.place)))?;
-    let mut scan = ScanOptions {
-        tol: read_tolerances(f)?,
-        ..ScanOptions::default()
-    };
-    if let Some(n) = f.count("samples", 3, roots_in_range::MAX_SAMPLES)? {
-        scan.samples = n;
-    }
-    Ok((lo, hi, scan))
-}
-
-fn range_roots_value(r: &RangeRoots) -> Value {
-    json!({
-        "roots": Value::Array(r.roots.iter().map(|root| json!({
-            "x": num(root.x),
-            "fx": num(root.fx),
-            "kind": root.kind.code(),
-            "converged": root.converged,
-            "certificate": certificate_value(root.certificate.as_ref()),
-        })).collect()),
-        "discontinuities": Value::Array(r.discontinuities.iter().map(|&b| pair_value(Some(b))).collect()),
-        "evaluations": r.evaluations,
-        "samples": r.samples,
-        "spacing": num(r.spacing),
-        "limits": r.limits,
-    })
-}
-
-/// All roots in a range of a text equation with one unknown: `{range, equations,
-/// knowns?, unknown?, samples?, tolerances?}`.
-pub fn find_roots(request: &str) -> Result<String, InputError> {
-    let map = parse_request(request)?;
-    let f = Fields::new(&map, "request");
-    f.only(&ROOTS_FIELDS)?;
-    let set = parse_set(f.required_string("equations")?)?;
-    let knowns = f.number_map("knowns")?;
-    let given: Vec<&str> = knowns.iter().map(|(n, _)| n.as_str()).collect();
-    let unknown = the_one_unknown(&f, &set, &given)?;
-    let (lo, hi, scan) = scan_setup(&f)?;
-    let mut residual = set.residual_fn(&knowns, &unknown)?;
-    let found = roots_in_range::roots_in_range(lo, hi, &scan, erase(&mut residual))?;
-    Ok(text_of(range_roots_value(&found)))
-}
-
-/// All roots in a range of a Rust closure (the native counterpart of `findRoots` with a
-/// JS function): `{range, samples?, tolerances?}`.
-pub fn find_roots_function(
-    request: &str,
-    mut f: impl FnMut(f64) -> f64,
-) -> Result<String, InputError> {
-    let map = parse_request(request)?;
-    let fields = Fields::new(&map, "request");
-    fields.only(&["range", "samples", "tolerances"])?;
-    let (lo, hi, scan) = scan_setup(&fields)?;
-    let found = roots_in_range::roots_in_range(lo, hi, &scan, erase(&mut f))?;
-    Ok(text_of(range_roots_value(&found)))
-}
-
-// ---------------------------------------------------------------------------------------
-// Systems of a callback
-
-/// Most unknowns of a system given as a function.
-pub const MAX_SYSTEM_UNKNOWNS: usize = 200;
-
-/// A system solution as a JSON object.
-pub fn system_solution_value(s: &broyden::SystemSolution) -> Value {
-    json!({
-        "roots": nums(&s.x),
-        "residuals": nums(&s.residuals),
-        "residual": num(max_abs(&s.residuals)),
-        "converged": s.converged,
-        "status": s.status.code(),
-        "message": s.status.diagnosis(),
-        "evaluations": s.evaluations,
-        "iterations": s.iterations,
-        "certificate": certificate_value(s.certificate.as_ref()),
-        "history": system_rows(s.history.iter().map(|r| (r.k, r.x.as_slice(), r.residual_norm, r.kind))),
-        "historyDropped": s.history_dropped,
-    })
-}
-
-/// Solves F(x) = 0 for n unknowns given as a closure filling n residuals:
-/// `{x0, tolerances?, bounds?, history?}`.
+/// Solves F(x) = 0 for n unknowns given as a closure filling n residuals.
 pub fn solve_system_function(
-    request: &str,
+    req: &SystemCall,
     mut f: impl FnMut(&[f64], &mut [f64]),
-) -> Result<String, InputError> {
-    let map = parse_request(request)?;
-    let fields = Fields::new(&map, "options");
-    fields.only(&["x0", "tolerances", "bounds", "history"])?;
-    let list = fields
-        .array("x0")?
-        .ok_or_else(|| bad("options.x0 is missing: give one starting value per unknown"))?;
-    if list.is_empty() || list.len() > MAX_SYSTEM_UNKNOWNS {
+) -> Result<SystemReport, InputError> {
+    let x0 = &req.x0;
+    if x0.is_empty() || x0.len() > MAX_SYSTEM_UNKNOWNS {
         return Err(bad(format!(
             "options.x0 has {} values; give 1 to {MAX_SYSTEM_UNKNOWNS}",
-            list.len()
+            x0.len()
         )));
     }
-    let x0 = list
-        .iter()
-        .enumerate()
-        .map(|(i, v)| finite_value(v, &format!("options.x0[{i}]")))
-        .collect::<Result<Vec<f64>, _>>()?;
-    let bounds = match fields.array("bounds")? {
+    for (i, x) in x0.iter().enumerate() {
+        crate::error::require_finite(*x, &format!("options.x0[{i}]"))?;
+    }
+    let bounds = match &req.bounds {
         None => Vec::new(),
         Some(b) if b.len() == x0.len() => b
             .iter()
             .enumerate()
-            .map(|(i, v)| bounds_value(v, &format!("options.bounds[{i}]")))
+            .map(|(i, v)| crate::problem::spec::bounds(Some(*v), &format!("options.bounds[{i}]")))
             .collect::<Result<Vec<Bounds>, _>>()?,
         Some(b) => {
             return Err(bad(format!(
@@ -1101,17 +846,47 @@ pub fn solve_system_function(
         }
     }
     let options = broyden::SystemOptions {
-        tol: read_tolerances(&fields)?,
+        tol: TolerancesInput::read(req.tolerances.as_ref(), "options.tolerances")?,
         bounds,
-        record_history: fields.boolean("history")?,
+        record_history: req.history,
     };
-    let solution =
-        broyden::solve_system(&x0, &options, &mut f as &mut dyn FnMut(&[f64], &mut [f64]))?;
-    Ok(text_of(system_solution_value(&solution)))
+    let s = broyden::solve_system(x0, &options, &mut f as &mut dyn FnMut(&[f64], &mut [f64]))?;
+    Ok(SystemReport {
+        residual: max_abs(&s.residuals),
+        roots: s.x,
+        residuals: s.residuals,
+        converged: s.converged,
+        status: s.status.code(),
+        message: s.status.diagnosis(),
+        evaluations: s.evaluations,
+        iterations: s.iterations,
+        certificate: s.certificate.as_ref().map(CertificateReport::system),
+        history: s
+            .history
+            .iter()
+            .map(|r| SystemHistoryReport {
+                k: r.k,
+                x: r.x.clone(),
+                residual_norm: r.residual_norm,
+                kind: r.kind.code(),
+            })
+            .collect(),
+        history_dropped: s.history_dropped,
+    })
+}
+
+fn max_abs(v: &[f64]) -> f64 {
+    v.iter().fold(0.0f64, |m, r| {
+        if r.is_nan() || m.is_nan() {
+            f64::NAN
+        } else {
+            m.max(r.abs())
+        }
+    })
 }
 
 // ---------------------------------------------------------------------------------------
-// Templates
+// Catalogue, units, checking a text
 
 /// `snake_case` to `camelCase`, for field names of the catalogue.
 fn camel(key: &str) -> String {
@@ -1130,7 +905,8 @@ fn camel(key: &str) -> String {
     out
 }
 
-fn camel_keys(v: Value) -> Value {
+fn camel_keys(v: serde_json::Value) -> serde_json::Value {
+    use serde_json::Value;
     match v {
         Value::Object(m) => Value::Object(
             m.into_iter()
@@ -1144,212 +920,161 @@ fn camel_keys(v: Value) -> Value {
 
 /// Every template with its full metadata, field names in camelCase. Open bounds
 /// (infinite) are `null`.
-pub fn catalogue() -> String {
-    let value = serde_json::to_value(templates::all()).unwrap_or(Value::Array(Vec::new()));
-    text_of(camel_keys(value))
+pub fn catalogue() -> serde_json::Value {
+    let value = serde_json::to_value(crate::templates::all())
+        .unwrap_or(serde_json::Value::Array(Vec::new()));
+    camel_keys(value)
 }
 
-const TEMPLATE_FIELDS: [&str; 11] = [
-    "id",
-    "useScenarioDefaults",
-    "branch",
-    "values",
-    "unknown",
-    "resultUnit",
-    "guesses",
-    "method",
-    "tolerances",
-    "history",
-    "sensitivities",
-];
-
-/// Longest template id or symbol accepted, in characters.
-const MAX_NAME_CHARS: usize = 200;
-
-fn short_name<'a>(s: &'a str, place: &str) -> Result<&'a str, InputError> {
-    let n = s.chars().count();
-    if n > MAX_NAME_CHARS {
-        return Err(bad(format!(
-            "{place} is {n} characters long; the limit is {MAX_NAME_CHARS}"
-        )));
+fn check_unit_text(unit: &str, what: &str) -> Result<(), InputError> {
+    let n = unit.chars().count();
+    if n > MAX_UNIT_CHARS {
+        return Err(InputError::new(
+            "unknown-unit",
+            format!("{what} unit is {n} characters long; no unit is longer than {MAX_UNIT_CHARS}"),
+        ));
     }
-    Ok(s)
+    Ok(())
 }
 
-/// One given value: `{value, unit}`, `[value, unit]`, or a bare number in the
-/// variable's default unit.
-fn template_value(
-    v: &Value,
-    place: &str,
-    default_unit: Option<&str>,
-) -> Result<(f64, String), InputError> {
-    match v {
-        Value::Object(m) => {
-            let f = Fields::new(m, place);
-            f.only(&["value", "unit"])?;
-            let unit = f.required_string("unit")?;
-            check_unit_text(unit, place)?;
-            Ok((f.required_finite("value")?, unit.to_string()))
-        }
-        Value::Array(a) if a.len() == 2 => {
-            let value = finite_value(&a[0], &format!("{place}[0]"))?;
-            let unit = a[1].as_str().ok_or_else(|| {
-                bad(format!(
-                    "{place}[1] must be a unit string, got {}",
-                    describe(&a[1])
-                ))
-            })?;
-            check_unit_text(unit, place)?;
-            Ok((value, unit.to_string()))
-        }
-        Value::Number(_) | Value::String(_) => {
-            let value = finite_value(v, place)?;
-            let unit = default_unit.ok_or_else(|| {
-                InputError::new(
-                    "unknown-variable",
-                    format!("{place} names no variable of this template"),
-                )
-            })?;
-            Ok((value, unit.to_string()))
-        }
-        other => Err(bad(format!(
-            "{place} must be {{value, unit}}, [value, unit] or a number, got {}",
-            describe(other)
-        ))),
-    }
+/// Converts `value` between two units of the same dimension.
+pub fn convert_unit(value: f64, from: &str, to: &str) -> Result<f64, InputError> {
+    check_unit_text(from, "the from")?;
+    check_unit_text(to, "the to")?;
+    crate::error::require_finite(value, "the value to convert")?;
+    crate::units::convert(value, from, to)
 }
 
-fn template_values(f: &Fields, id: &str) -> Result<Vec<(String, f64, String)>, InputError> {
-    let template = templates::find(id);
-    let unit_of = |symbol: &str| {
-        template
-            .and_then(|t| t.variable(symbol))
-            .map(|v| v.unit.as_str())
+/// Every dimension with its units, SI unit first.
+pub fn units_catalogue() -> Vec<DimensionUnits> {
+    crate::units::dimensions()
+        .into_iter()
+        .map(|d| DimensionUnits {
+            dimension: d,
+            units: crate::units::units_of(d),
+        })
+        .collect()
+}
+
+/// Parses an equation text without solving it; never an error for bad text.
+pub fn check_equation(text: &str) -> CheckReport {
+    let n = text.chars().count();
+    let parsed = if n > MAX_EQUATION_CHARS {
+        Err(InputError::new(
+            "equation-too-long",
+            format!("the equation text is {n} characters long; the limit is {MAX_EQUATION_CHARS}"),
+        ))
+    } else {
+        crate::equations::EquationSet::parse(text)
     };
-    let mut out = Vec::new();
-    match f.get("values") {
-        None => {}
-        Some(Value::Object(m)) => {
-            let list = template.and_then(|t| t.list.as_ref());
-            for (symbol, v) in m {
-                let place = format!("request.values.{}", short_name(symbol, "a symbol")?);
-                // The list input (cash flows) takes a list of numbers in its default unit.
-                if let (Some(list), Value::Array(items)) = (list, v) {
-                    if &list.symbol == symbol && items.iter().all(Value::is_number) {
-                        for (i, item) in items.iter().enumerate() {
-                            let value = finite_value(item, &format!("{place}[{i}]"))?;
-                            out.push((symbol.clone(), value, list.unit.clone()));
-                        }
-                        continue;
-                    }
-                }
-                let (value, unit) = template_value(v, &place, unit_of(symbol))?;
-                out.push((symbol.clone(), value, unit));
-            }
-        }
-        Some(Value::Array(items)) => {
-            for (i, item) in items.iter().enumerate() {
-                let place = format!("request.values[{i}]");
-                let Value::Object(m) = item else {
-                    return Err(bad(format!(
-                        "{place} must be {{symbol, value, unit}}, got {}",
-                        describe(item)
-                    )));
-                };
-                let g = Fields::new(m, place.clone());
-                g.only(&["symbol", "value", "unit"])?;
-                let symbol = short_name(g.required_string("symbol")?, &place)?;
-                let value = g.required_finite("value")?;
-                let unit = match g.string("unit")? {
-                    Some(u) => u,
-                    None => unit_of(symbol).ok_or_else(|| {
-                        InputError::new(
-                            "unknown-variable",
-                            format!("{place}.symbol names no variable of this template"),
-                        )
-                    })?,
-                };
-                check_unit_text(unit, &place)?;
-                out.push((symbol.to_string(), value, unit.to_string()));
-            }
-        }
-        Some(other) => {
-            return Err(bad(format!(
-                "request.values must be an object {{symbol: {{value, unit}}}} or a list, got {}",
-                describe(other)
-            )))
-        }
-    }
-    Ok(out)
-}
-
-/// A [`TemplateSolution`] as a JSON object: the set solution (unknowns in SI) with
-/// `root`/`value` in the result unit, `unit`, `branch` (the label of the root, or
-/// null), `otherRoots` (`[{value, label}]`), `scanEvaluations`, `notes`, `caution`,
-/// `outputs`.
-pub fn template_solution_value(s: &TemplateSolution) -> Value {
-    let mut v = set_solution_value(&s.solution);
-    if let Value::Object(m) = &mut v {
-        m.insert("root".into(), num(s.value));
-        m.insert("value".into(), num(s.value));
-        m.insert("unit".into(), json!(s.unit));
-        m.insert("branch".into(), json!(s.branch));
-        m.insert(
-            "otherRoots".into(),
-            Value::Array(
-                s.other_roots
-                    .iter()
-                    .map(|r| json!({"value": num(r.value), "label": r.label}))
-                    .collect(),
-            ),
-        );
-        m.insert("scanEvaluations".into(), json!(s.scan_evaluations));
-        m.insert("notes".into(), json!(s.notes));
-        m.insert("caution".into(), json!(s.caution));
-        m.insert(
-            "outputs".into(),
-            Value::Array(
-                s.outputs
-                    .iter()
-                    .map(|o| json!({"symbol": o.symbol, "meaning": o.meaning, "value": num(o.value), "unit": o.unit}))
-                    .collect(),
-            ),
-        );
-    }
-    v
-}
-
-/// Reads a template request (the JSON of `solveTemplate`).
-pub fn template_request(request: &str) -> Result<TemplateRequest, InputError> {
-    let map = parse_request(request)?;
-    let f = Fields::new(&map, "request");
-    f.only(&TEMPLATE_FIELDS)?;
-    let id = short_name(f.required_string("id")?, "request.id")?;
-    let unknown = short_name(f.required_string("unknown")?, "request.unknown")?;
-    let result_unit = f.string("resultUnit")?;
-    if let Some(u) = result_unit {
-        check_unit_text(u, "the result")?;
-    }
-    Ok(TemplateRequest {
-        id: id.to_string(),
-        values: template_values(&f, id)?,
-        unknown: unknown.to_string(),
-        result_unit: result_unit.map(str::to_string),
-        guesses: f.finite_pair("guesses")?,
-        options: read_options(&f, None)?,
-        sensitivities: f.boolean("sensitivities")?,
-        branch: match f.string("branch")? {
-            Some(b) => Some(short_name(b, "request.branch")?.to_string()),
-            None => None,
+    match parsed {
+        Ok(set) => CheckReport {
+            ok: true,
+            variables: Some(set.variables()),
+            definitions: Some(set.definition_names()),
+            equations: Some(set.equation_count()),
+            code: None,
+            message: None,
+            position: None,
+            caret: None,
         },
-        use_scenario_defaults: f.boolean("useScenarioDefaults")?,
-    })
+        Err(e) => CheckReport {
+            ok: false,
+            variables: None,
+            definitions: None,
+            equations: None,
+            code: Some(e.code),
+            caret: e.position.map(|p| crate::equations::caret(text, p)),
+            message: Some(e.message),
+            position: e.position,
+        },
+    }
 }
 
-/// Solves a bundled template: `{id, values, unknown, resultUnit?, guesses?, branch?,
-/// method?, tolerances?, history?, sensitivities?}`.
-pub fn solve_template(request: &str) -> Result<String, InputError> {
-    let req = template_request(request)?;
-    let solution = templates::solve_template(&req)?;
-    Ok(text_of(template_solution_value(&solution)))
+// ---------------------------------------------------------------------------------------
+// JSON text
+
+/// The same calls with JSON text in and out, for native callers and tests. Numbers
+/// that are not finite are written as `null` (JSON has none); requests give open
+/// bounds as `null`.
+pub mod json {
+    use super::*;
+
+    pub use super::{
+        MAX_EQUATION_CHARS, MAX_EVALS, MAX_REQUEST_BYTES, MAX_SAVED_STEPPER_BYTES, MAX_SWEEP_POINTS,
+    };
+
+    /// A result as JSON text. Serialising these plain structs cannot fail; should it,
+    /// the error says so rather than panicking.
+    pub fn text<T: Serialize>(value: &T) -> Result<String, InputError> {
+        serde_json::to_string(value)
+            .map_err(|e| InputError::new("internal", format!("the result cannot be written: {e}")))
+    }
+
+    fn read<T: for<'de> Deserialize<'de>>(what: &str, text: &str) -> Result<T, InputError> {
+        crate::problem::spec::from_json(what, text)
+    }
+
+    pub fn solve_equation(request: &str) -> Result<String, InputError> {
+        text(&super::solve_equation(&read("request", request)?)?)
+    }
+
+    pub fn solve_template(request: &str) -> Result<String, InputError> {
+        text(&super::solve_template(&read("request", request)?)?)
+    }
+
+    pub fn sweep(request: &str) -> Result<String, InputError> {
+        text(&super::sweep(&read("request", request)?)?)
+    }
+
+    pub fn find_roots(request: &str) -> Result<String, InputError> {
+        text(&super::find_roots(&read("request", request)?)?)
+    }
+
+    pub fn find_roots_function(
+        request: &str,
+        f: impl FnMut(f64) -> f64,
+    ) -> Result<String, InputError> {
+        text(&super::find_roots_function(&read("request", request)?, f)?)
+    }
+
+    pub fn solve_function(request: &str, f: impl FnMut(f64) -> f64) -> Result<String, InputError> {
+        text(&super::solve_function(&read("options", request)?, f)?)
+    }
+
+    pub fn solve_system_function(
+        request: &str,
+        f: impl FnMut(&[f64], &mut [f64]),
+    ) -> Result<String, InputError> {
+        text(&super::solve_system_function(
+            &read("options", request)?,
+            f,
+        )?)
+    }
+
+    pub fn check_equation(equation: &str) -> String {
+        text(&super::check_equation(equation)).unwrap_or_default()
+    }
+
+    pub fn catalogue() -> String {
+        super::catalogue().to_string()
+    }
+
+    pub fn units_catalogue() -> String {
+        text(&super::units_catalogue()).unwrap_or_default()
+    }
+
+    pub fn convert_unit(value: f64, from: &str, to: &str) -> Result<f64, InputError> {
+        super::convert_unit(value, from, to)
+    }
+
+    /// A problem compiled from a JSON spec.
+    pub fn problem(spec: &str) -> Result<ProblemSession, InputError> {
+        ProblemSession::compile(&read("spec", spec)?)
+    }
+
+    /// A stepper from JSON options.
+    pub fn stepper(options: &str) -> Result<StepperSession, InputError> {
+        StepperSession::create(&read("options", options)?)
+    }
 }

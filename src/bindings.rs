@@ -1,4 +1,5 @@
-//! The wasm32 binding layer: converts JavaScript values, calls [`crate::api`], and turns
+//! The wasm32 binding layer: reads requests from JavaScript objects and writes results
+//! as JavaScript objects (`serde-wasm-bindgen`), calls [`crate::api`], and turns
 //! [`InputError`]s into JavaScript `Error`s with a stable `code` (and `position` for
 //! equation errors). No numerical logic lives here.
 //!
@@ -131,12 +132,257 @@ fn function_arg(v: JsValue, what: &str) -> Result<Function, JsValue> {
         .map_err(|v| wrong_type(what, "a function", &v))
 }
 
-fn json_call(
-    request: &JsValue,
-    call: impl FnOnce(&str) -> Result<String, InputError>,
-) -> Result<String, JsValue> {
-    let request = string_arg(request, "the request (a JSON string)")?;
-    call(&request).map_err(to_js)
+/// Reads a request of type `T` from a JavaScript object, naming the place of a bad
+/// field (`request.tolerances.xRel`). Anything but a plain object is a `bad-type`.
+fn read<T: serde::de::DeserializeOwned>(value: JsValue, what: &str) -> Result<T, JsValue> {
+    if !value.is_object() || js_sys::Array::is_array(&value) || value.is_function() {
+        let got = if value.is_null() {
+            "null".to_string()
+        } else if js_sys::Array::is_array(&value) {
+            "a list".to_string()
+        } else {
+            type_name(&value)
+        };
+        return Err(to_js(InputError::new(
+            "bad-type",
+            format!("{what} must be an object, got {got}"),
+        )));
+    }
+    strict::TEXT_LEFT.with(|left| left.set(crate::api::MAX_REQUEST_BYTES));
+    crate::problem::spec::read(what, strict::JsReader(value)).map_err(to_js)
+}
+
+/// A serde reader of JavaScript values for requests. serde-wasm-bindgen's reader reads
+/// only the fields a struct declares (its issue 39), so `deny_unknown_fields` could not
+/// refuse a misspelt option; this one hands every own key of an object to serde, reads
+/// numbers as numbers (NaN and ±Infinity included), copies at most `MAX_REQUEST_BYTES`
+/// characters of text out of one request (counted before each copy, so that one long
+/// string shared by many fields cannot fill the memory), and walks a value only as deep as the
+/// request's types go (skipped values are not walked at all).
+mod strict {
+    use js_sys::{Array, JsString, Reflect};
+    use serde::de::{self, DeserializeSeed, Visitor};
+    use std::fmt;
+    use wasm_bindgen::prelude::*;
+    use wasm_bindgen::{JsCast, JsValue};
+
+    // Every reach into a request object goes through an import that catches: a Proxy
+    // or a getter that throws gives an error, not an exception through Rust frames.
+    #[wasm_bindgen]
+    extern "C" {
+        #[wasm_bindgen(catch, js_namespace = Object, js_name = keys)]
+        fn object_keys(o: &JsValue) -> Result<Array, JsValue>;
+    }
+
+    fn get(target: &JsValue, key: &JsValue) -> Result<JsValue, Error> {
+        Reflect::get(target, key)
+            .map_err(|_| Error("a field that cannot be read (its getter threw)".into()))
+    }
+
+    /// A list's length, read through a catching import.
+    fn length(a: &JsValue) -> Result<u32, Error> {
+        let n = get(a, &JsValue::from_str("length"))?
+            .as_f64()
+            .unwrap_or(0.0);
+        if !(n >= 0.0 && n <= u32::MAX as f64) {
+            return Err(Error("a list whose length cannot be read".into()));
+        }
+        Ok(n as u32)
+    }
+
+    #[derive(Debug)]
+    pub struct Error(String);
+
+    impl fmt::Display for Error {
+        fn fmt(&self, f: &mut fmt::Formatter) -> fmt::Result {
+            f.write_str(&self.0)
+        }
+    }
+
+    impl std::error::Error for Error {}
+
+    impl de::Error for Error {
+        fn custom<T: fmt::Display>(msg: T) -> Self {
+            Error(msg.to_string())
+        }
+    }
+
+    pub struct JsReader(pub JsValue);
+
+    thread_local! {
+        /// Characters of text the request being read may still copy.
+        pub static TEXT_LEFT: std::cell::Cell<usize> = const { std::cell::Cell::new(0) };
+    }
+
+    fn unexpected(v: &JsValue) -> de::Unexpected<'static> {
+        if v.is_null() || v.is_undefined() {
+            de::Unexpected::Unit
+        } else if Array::is_array(v) {
+            de::Unexpected::Seq
+        } else if v.is_function() {
+            de::Unexpected::Other("a function")
+        } else {
+            de::Unexpected::Map
+        }
+    }
+
+    impl<'de> de::Deserializer<'de> for JsReader {
+        type Error = Error;
+
+        fn deserialize_any<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, Error> {
+            let v = self.0;
+            if v.is_null() || v.is_undefined() {
+                return visitor.visit_unit();
+            }
+            if let Some(b) = v.as_bool() {
+                return visitor.visit_bool(b);
+            }
+            if let Some(x) = v.as_f64() {
+                return visitor.visit_f64(x);
+            }
+            if let Some(s) = v.dyn_ref::<JsString>() {
+                let n = s.length() as usize;
+                let left = TEXT_LEFT.with(|l| l.get());
+                if n > left {
+                    return Err(Error(format!(
+                        "a text of {n} characters, beyond the limit of {} characters of text in one request",
+                        crate::api::MAX_REQUEST_BYTES
+                    )));
+                }
+                TEXT_LEFT.with(|l| l.set(left - n));
+                return match s.as_string() {
+                    Some(text) => visitor.visit_string(text),
+                    None => Err(Error("a text that is not valid Unicode".into())),
+                };
+            }
+            if Array::is_array(&v) {
+                let len = length(&v)?;
+                return visitor.visit_seq(Seq { a: v, i: 0, len });
+            }
+            if v.is_object() && !v.is_function() {
+                let keys = object_keys(&v)
+                    .map_err(|_| Error("an object whose fields cannot be listed".into()))?;
+                let len = keys.length();
+                return visitor.visit_map(Map {
+                    obj: v,
+                    keys,
+                    i: 0,
+                    len,
+                    value: None,
+                });
+            }
+            Err(de::Error::invalid_type(unexpected(&v), &visitor))
+        }
+
+        fn deserialize_option<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, Error> {
+            if self.0.is_null() || self.0.is_undefined() {
+                visitor.visit_none()
+            } else {
+                visitor.visit_some(self)
+            }
+        }
+
+        fn deserialize_tuple<V: Visitor<'de>>(
+            self,
+            len: usize,
+            visitor: V,
+        ) -> Result<V::Value, Error> {
+            if Array::is_array(&self.0) {
+                let n = length(&self.0)?;
+                if n as usize != len {
+                    return Err(Error(format!("expected a list of {len} items, got {n}")));
+                }
+            }
+            self.deserialize_any(visitor)
+        }
+
+        fn deserialize_ignored_any<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, Error> {
+            visitor.visit_unit()
+        }
+
+        serde::forward_to_deserialize_any! {
+            bool i8 i16 i32 i64 i128 u8 u16 u32 u64 u128 f32 f64 char str string
+            bytes byte_buf unit unit_struct newtype_struct seq tuple_struct
+            map struct enum identifier
+        }
+    }
+
+    struct Seq {
+        a: JsValue,
+        i: u32,
+        len: u32,
+    }
+
+    impl<'de> de::SeqAccess<'de> for Seq {
+        type Error = Error;
+        fn next_element_seed<T: DeserializeSeed<'de>>(
+            &mut self,
+            seed: T,
+        ) -> Result<Option<T::Value>, Error> {
+            if self.i >= self.len {
+                return Ok(None);
+            }
+            let item = get(&self.a, &JsValue::from(self.i))?;
+            self.i += 1;
+            seed.deserialize(JsReader(item)).map(Some)
+        }
+        fn size_hint(&self) -> Option<usize> {
+            Some((self.len - self.i) as usize)
+        }
+    }
+
+    struct Map {
+        obj: JsValue,
+        keys: Array,
+        i: u32,
+        len: u32,
+        value: Option<JsValue>,
+    }
+
+    impl<'de> de::MapAccess<'de> for Map {
+        type Error = Error;
+        fn next_key_seed<K: DeserializeSeed<'de>>(
+            &mut self,
+            seed: K,
+        ) -> Result<Option<K::Value>, Error> {
+            if self.i >= self.len {
+                return Ok(None);
+            }
+            let key = self.keys.get(self.i);
+            self.i += 1;
+            let value = get(&self.obj, &key)?;
+            self.value = Some(value);
+            seed.deserialize(JsReader(key)).map(Some)
+        }
+        fn next_value_seed<V: DeserializeSeed<'de>>(&mut self, seed: V) -> Result<V::Value, Error> {
+            let value = self.value.take().unwrap_or(JsValue::UNDEFINED);
+            seed.deserialize(JsReader(value))
+        }
+    }
+}
+
+/// A result as a JavaScript value: maps as plain objects (names stay strings), `None`
+/// as `null`, numbers as numbers (NaN and ±Infinity included).
+fn write<T: serde::Serialize>(value: &T) -> Result<JsValue, JsValue> {
+    let serializer = serde_wasm_bindgen::Serializer::new()
+        .serialize_maps_as_objects(true)
+        .serialize_missing_as_null(true);
+    value.serialize(&serializer).map_err(|e| {
+        to_js(InputError::new(
+            "internal",
+            format!("the result cannot be written: {e}"),
+        ))
+    })
+}
+
+/// Reads a request, calls the core, writes the result.
+fn call<T: serde::de::DeserializeOwned, R: serde::Serialize>(
+    request: JsValue,
+    what: &str,
+    run: impl FnOnce(&T) -> Result<R, InputError>,
+) -> Result<JsValue, JsValue> {
+    let request: T = read(request, what)?;
+    write(&run(&request).map_err(to_js)?)
 }
 
 /// A failed callback: the JavaScript value it threw, or a description of its bad answer.
@@ -173,39 +419,127 @@ fn callback_error(failure: CallbackFailure) -> JsValue {
 }
 
 // ---------------------------------------------------------------------------------------
-// Requests as JSON text
+// Requests as JavaScript objects
 
 #[wasm_bindgen(js_name = solveEquation)]
-pub fn solve_equation(request: JsValue) -> Result<String, JsValue> {
-    json_call(&request, api::solve_equation)
+pub fn solve_equation(request: JsValue) -> Result<JsValue, JsValue> {
+    call(request, "request", api::solve_equation)
 }
 
 #[wasm_bindgen(js_name = solveTemplate)]
-pub fn solve_template(request: JsValue) -> Result<String, JsValue> {
-    json_call(&request, api::solve_template)
+pub fn solve_template(request: JsValue) -> Result<JsValue, JsValue> {
+    call(request, "request", api::solve_template)
 }
 
-/// Every template with its full metadata, as JSON.
+/// Every template with its full metadata.
 #[wasm_bindgen(js_name = catalogue)]
-pub fn catalogue() -> String {
-    api::catalogue()
+pub fn catalogue() -> Result<JsValue, JsValue> {
+    write(&api::catalogue())
 }
 
 #[wasm_bindgen(js_name = sweep)]
-pub fn sweep(request: JsValue) -> Result<String, JsValue> {
-    json_call(&request, api::sweep)
+pub fn sweep(request: JsValue) -> Result<JsValue, JsValue> {
+    call(request, "request", api::sweep)
 }
 
 #[wasm_bindgen(js_name = findRoots)]
-pub fn find_roots(request: JsValue) -> Result<String, JsValue> {
-    json_call(&request, api::find_roots)
+pub fn find_roots(request: JsValue) -> Result<JsValue, JsValue> {
+    call(request, "request", api::find_roots)
 }
 
 /// `{ok, variables, definitions, equations}` or `{ok: false, code, message, position, caret}`.
 #[wasm_bindgen(js_name = checkEquation)]
-pub fn check_equation(text: JsValue) -> Result<String, JsValue> {
+pub fn check_equation(text: JsValue) -> Result<JsValue, JsValue> {
     let text = string_arg(&text, "the equation text")?;
-    Ok(api::check_equation(&text))
+    write(&api::check_equation(&text))
+}
+
+// ---------------------------------------------------------------------------------------
+// A compiled problem and its sweeps
+
+/// A compiled problem; the wrapper's `Problem` class holds one.
+#[wasm_bindgen(js_name = ProblemHandle)]
+pub struct ProblemHandle(api::ProblemSession);
+
+#[wasm_bindgen(js_class = ProblemHandle)]
+impl ProblemHandle {
+    pub fn compile(spec: JsValue) -> Result<ProblemHandle, JsValue> {
+        let spec: crate::problem::ProblemSpec = read(spec, "spec")?;
+        api::ProblemSession::compile(&spec)
+            .map(ProblemHandle)
+            .map_err(to_js)
+    }
+
+    /// The one unknown's name, or undefined with several.
+    #[wasm_bindgen(getter)]
+    pub fn unknown(&self) -> Option<String> {
+        self.0.unknown()
+    }
+
+    /// The unit of the one unknown's values, or undefined with none.
+    #[wasm_bindgen(getter)]
+    pub fn unit(&self) -> Option<String> {
+        self.0.unit()
+    }
+
+    pub fn solve(&self, options: JsValue) -> Result<JsValue, JsValue> {
+        call(options, "options", |o| self.0.solve(o))
+    }
+
+    pub fn residual(&self, x: JsValue) -> Result<f64, JsValue> {
+        let x = number_arg(&x, "x")?;
+        self.0.residual(x).map_err(to_js)
+    }
+
+    pub fn sample(&self, lo: JsValue, hi: JsValue, n: JsValue) -> Result<JsValue, JsValue> {
+        let lo = number_arg(&lo, "lo")?;
+        let hi = number_arg(&hi, "hi")?;
+        let n = number_arg(&n, "n")?;
+        write(&self.0.sample(lo, hi, n).map_err(to_js)?)
+    }
+
+    pub fn roots(&self, lo: JsValue, hi: JsValue, options: JsValue) -> Result<JsValue, JsValue> {
+        let lo = number_arg(&lo, "lo")?;
+        let hi = number_arg(&hi, "hi")?;
+        call(options, "options", |o| self.0.roots(lo, hi, o))
+    }
+
+    pub fn sensitivities(&self, options: JsValue) -> Result<JsValue, JsValue> {
+        call(options, "options", |o| self.0.sensitivities(o))
+    }
+
+    #[wasm_bindgen(js_name = startSweep)]
+    pub fn start_sweep(&self, spec: JsValue) -> Result<SweepHandle, JsValue> {
+        let spec: crate::problem::SweepSpec = read(spec, "sweep")?;
+        self.0.start_sweep(&spec).map(SweepHandle).map_err(to_js)
+    }
+}
+
+/// A sweep run in chunks; each `advance` gives only its new points.
+#[wasm_bindgen(js_name = SweepHandle)]
+pub struct SweepHandle(api::SweepSession);
+
+#[wasm_bindgen(js_class = SweepHandle)]
+impl SweepHandle {
+    pub fn advance(&mut self, chunk: JsValue) -> Result<JsValue, JsValue> {
+        let chunk = number_arg(&chunk, "chunk")?;
+        write(&self.0.advance(chunk).map_err(to_js)?)
+    }
+
+    #[wasm_bindgen(getter)]
+    pub fn done(&self) -> usize {
+        self.0.done()
+    }
+
+    #[wasm_bindgen(getter)]
+    pub fn points(&self) -> usize {
+        self.0.points()
+    }
+
+    #[wasm_bindgen(getter)]
+    pub fn finished(&self) -> bool {
+        self.0.is_done()
+    }
 }
 
 // ---------------------------------------------------------------------------------------
@@ -214,10 +548,10 @@ pub fn check_equation(text: JsValue) -> Result<String, JsValue> {
 /// Solves F(x) = 0 for a JavaScript `F(x: Float64Array) => Float64Array` (the wrapper
 /// adapts plain arrays). After the first failed call F is not called again.
 #[wasm_bindgen(js_name = solveSystemFunction)]
-pub fn solve_system_function(f: JsValue, request: JsValue) -> Result<String, JsValue> {
+pub fn solve_system_function(f: JsValue, request: JsValue) -> Result<JsValue, JsValue> {
     let _nesting = Nesting::enter()?;
     let f = function_arg(f, "F")?;
-    let request = string_arg(&request, "the options (a JSON string)")?;
+    let request: api::SystemCall = read(request, "options")?;
     let mut failure: Option<CallbackFailure> = None;
     let result = api::solve_system_function(&request, |x, out| {
         if failure.is_none() {
@@ -249,16 +583,16 @@ pub fn solve_system_function(f: JsValue, request: JsValue) -> Result<String, JsV
     if let Some(failure) = failure {
         return Err(callback_error(failure));
     }
-    result.map_err(to_js)
+    write(&result.map_err(to_js)?)
 }
 
 /// All roots in a range of a JavaScript `f(x: number) => number`. After the first failed
 /// call f is not called again.
 #[wasm_bindgen(js_name = findRootsFunction)]
-pub fn find_roots_function(f: JsValue, request: JsValue) -> Result<String, JsValue> {
+pub fn find_roots_function(f: JsValue, request: JsValue) -> Result<JsValue, JsValue> {
     let _nesting = Nesting::enter()?;
     let f = function_arg(f, "f")?;
-    let request = string_arg(&request, "the request (a JSON string)")?;
+    let request: api::FunctionRootsCall = read(request, "request")?;
     let mut failure: Option<CallbackFailure> = None;
     let result = api::find_roots_function(&request, |x| {
         if failure.is_some() {
@@ -281,7 +615,7 @@ pub fn find_roots_function(f: JsValue, request: JsValue) -> Result<String, JsVal
     if let Some(failure) = failure {
         return Err(callback_error(failure));
     }
-    result.map_err(to_js)
+    write(&result.map_err(to_js)?)
 }
 
 // ---------------------------------------------------------------------------------------
@@ -294,7 +628,7 @@ pub struct StepperHandle(api::StepperSession);
 #[wasm_bindgen(js_class = StepperHandle)]
 impl StepperHandle {
     pub fn create(request: JsValue) -> Result<StepperHandle, JsValue> {
-        let request = string_arg(&request, "the stepper options (a JSON string)")?;
+        let request: api::ScalarCall = read(request, "options")?;
         api::StepperSession::create(&request)
             .map(StepperHandle)
             .map_err(to_js)
@@ -333,14 +667,17 @@ impl StepperHandle {
         self.0.evaluations()
     }
 
-    /// The result as JSON once done.
-    pub fn result(&self) -> Option<String> {
-        self.0.result()
+    /// The result once done, else undefined.
+    pub fn result(&self) -> Result<JsValue, JsValue> {
+        match self.0.result() {
+            Some(r) => write(&r),
+            None => Ok(JsValue::UNDEFINED),
+        }
     }
 
-    /// The history rows so far as JSON (empty unless history was asked for).
-    pub fn history(&self) -> String {
-        self.0.history()
+    /// The history rows so far (empty unless history was asked for).
+    pub fn history(&self) -> Result<JsValue, JsValue> {
+        write(&self.0.history())
     }
 
     pub fn save(&self) -> String {
@@ -359,8 +696,8 @@ pub fn convert_unit(value: JsValue, from: JsValue, to: JsValue) -> Result<f64, J
     api::convert_unit(value, &from, &to).map_err(to_js)
 }
 
-/// Every dimension with its units: `[{dimension, units}]` as JSON.
+/// Every dimension with its units: `[{dimension, units}]`.
 #[wasm_bindgen(js_name = unitsCatalogue)]
-pub fn units_catalogue() -> String {
-    api::units_catalogue()
+pub fn units_catalogue() -> Result<JsValue, JsValue> {
+    write(&api::units_catalogue())
 }

@@ -2,7 +2,8 @@
 //! every kind of bad input answered by an `InputError` that names the value and place.
 
 use serde_json::Value;
-use tacit::api::{self, StepperSession};
+use tacit::api::json as api;
+use tacit::api::StepperSession;
 use tacit::InputError;
 
 fn parse(text: &str) -> Value {
@@ -53,8 +54,9 @@ fn solve_function_finds_square_root_of_two() {
     assert!((root - 2f64.sqrt()).abs() <= 1e-11);
     let history = out["history"].as_array().unwrap();
     assert_eq!(history.len() as u64, out["evaluations"].as_u64().unwrap());
-    // The first row has no previous point: its step is NaN, written as a string.
-    assert_eq!(history[0]["step"], Value::String("NaN".into()));
+    // The first row has no previous point: its step is NaN, written as null in JSON
+    // (a number, NaN, in JavaScript).
+    assert_eq!(history[0]["step"], Value::Null);
     assert_eq!(history[0]["kind"], "initial");
     assert!(out["message"].as_str().unwrap().starts_with("Converged"));
 }
@@ -77,7 +79,7 @@ fn solve_function_counts_every_evaluation() {
 fn solve_function_respects_tolerances_and_bounds() {
     let out = parse(
         &api::solve_function(
-            r#"{"guesses":[1,2],"tolerances":{"maxEvals":3},"bounds":[0,"Infinity"]}"#,
+            r#"{"guesses":[1,2],"tolerances":{"maxEvals":3},"bounds":[0,null]}"#,
             square_minus_two,
         )
         .unwrap(),
@@ -93,7 +95,7 @@ fn scalar_options_are_checked() {
     check_error(
         api::solve_function("", f),
         "bad-request",
-        &["not valid JSON"],
+        &["options", "EOF"],
     );
     check_error(
         api::solve_function("[1,2]", f),
@@ -116,19 +118,14 @@ fn scalar_options_are_checked() {
         &["options.guesses[1]", "\"two\""],
     );
     check_error(
-        api::solve_function(r#"{"guesses":[1,"NaN"]}"#, f),
-        "non-finite-input",
-        &["options.guesses[1]", "NaN"],
-    );
-    check_error(
-        api::solve_function(r#"{"guesses":["Infinity",1]}"#, f),
-        "non-finite-input",
-        &["options.guesses[0]"],
+        api::solve_function(r#"{"guesses":[1,null]}"#, f),
+        "bad-request",
+        &["options.guesses[1]", "null"],
     );
     check_error(
         api::solve_function(r#"{"guesses":[1]}"#, f),
         "bad-request",
-        &["two numbers"],
+        &["options.guesses", "size 2"],
     );
     check_error(
         api::solve_function(r#"{"guesses":[1,1]}"#, f),
@@ -143,7 +140,7 @@ fn scalar_options_are_checked() {
     check_error(
         api::solve_function(r#"{"guesses":[1,2],"tolerance":{}}"#, f),
         "bad-request",
-        &["unknown field \"tolerance\"", "tolerances"],
+        &["unknown field `tolerance`", "tolerances"],
     );
     check_error(
         api::solve_function(r#"{"guesses":[1,2],"tolerances":{"xRel":-1}}"#, f),
@@ -152,12 +149,12 @@ fn scalar_options_are_checked() {
     );
     check_error(
         api::solve_function(r#"{"guesses":[1,2],"tolerances":{"maxEvals":2.5}}"#, f),
-        "bad-request",
+        "bad-tolerance",
         &["maxEvals", "whole number"],
     );
     check_error(
         api::solve_function(r#"{"guesses":[1,2],"tolerances":{"maxEvals":1e300}}"#, f),
-        "bad-request",
+        "bad-tolerance",
         &["maxEvals"],
     );
     check_error(
@@ -173,7 +170,7 @@ fn scalar_options_are_checked() {
     check_error(
         api::solve_function(r#"{"guesses":[1,2],"history":"yes"}"#, f),
         "bad-request",
-        &["options.history", "true or false"],
+        &["options.history", "expected a boolean"],
     );
 }
 
@@ -183,7 +180,7 @@ fn deep_nesting_and_huge_requests_are_errors() {
     check_error(
         api::solve_function(&deep, square_minus_two),
         "bad-request",
-        &["JSON"],
+        &["options"],
     );
     let deep_obj = format!(
         "{{\"guesses\":[1,2],\"bounds\":{}{}}}",
@@ -209,12 +206,12 @@ fn deep_nesting_and_huge_requests_are_errors() {
 #[test]
 fn stepper_driven_to_the_end_matches_the_closure_solve() {
     let opts = r#"{"bracket":[0,3],"history":true}"#;
-    let mut s = StepperSession::create(opts).unwrap();
+    let mut s = api::stepper(opts).unwrap();
     while let Some(x) = s.next_point() {
         s.tell(square_minus_two(x)).unwrap();
     }
     assert!(s.is_done());
-    let stepped = parse(&s.result().unwrap());
+    let stepped = parse(&api::text(&s.result().unwrap()).unwrap());
     let direct = parse(&api::solve_function(opts, square_minus_two).unwrap());
     assert_eq!(stepped, direct);
     // Reference: Rust std `f64::sqrt`.
@@ -224,7 +221,7 @@ fn stepper_driven_to_the_end_matches_the_closure_solve() {
 
 #[test]
 fn stepper_saved_mid_way_resumes_without_evaluating_again() {
-    let mut s = StepperSession::create(r#"{"guesses":[1,2]}"#).unwrap();
+    let mut s = api::stepper(r#"{"guesses":[1,2]}"#).unwrap();
     for _ in 0..3 {
         let x = s.next_point().unwrap();
         s.tell(square_minus_two(x)).unwrap();
@@ -244,7 +241,7 @@ fn stepper_saved_mid_way_resumes_without_evaluating_again() {
 
 #[test]
 fn tampered_stepper_records_are_errors() {
-    let mut s = StepperSession::create(r#"{"bracket":[0,3]}"#).unwrap();
+    let mut s = api::stepper(r#"{"bracket":[0,3]}"#).unwrap();
     let x = s.next_point().unwrap();
     s.tell(square_minus_two(x)).unwrap();
     let saved = s.save();
@@ -281,11 +278,11 @@ fn tampered_stepper_records_are_errors() {
 #[test]
 fn stepper_accepts_non_finite_values_and_backs_off() {
     // ln(x) - 1 is undefined for x <= 0; the root is e (Rust std `std::f64::consts::E`).
-    let mut s = StepperSession::create(r#"{"guesses":[-1,5]}"#).unwrap();
+    let mut s = api::stepper(r#"{"guesses":[-1,5]}"#).unwrap();
     while let Some(x) = s.next_point() {
         s.tell(x.ln() - 1.0).unwrap();
     }
-    let out = parse(&s.result().unwrap());
+    let out = parse(&api::text(&s.result().unwrap()).unwrap());
     if out["converged"] == Value::Bool(true) {
         assert!((f64_of(&out["root"]) - std::f64::consts::E).abs() < 1e-12);
     } else {
@@ -476,7 +473,7 @@ fn template_with_units_matches_swamee_jain() {
     check_error(
         api::solve_template(r#"{"id":"pipes.colebrook","values":{"Q":1},"unknown":"f"}"#),
         "unknown-variable",
-        &["request.values.Q"],
+        &["values.Q"],
     );
 }
 
@@ -506,7 +503,7 @@ fn roots_in_a_range_of_text_and_of_a_closure() {
     assert_eq!(out["samples"], 100);
     check_error(
         api::find_roots_function(r#"{"range":[0,1],"samples":1e12}"#, f64::sin),
-        "bad-request",
+        "bad-samples",
         &["request.samples"],
     );
 }
@@ -540,7 +537,7 @@ fn sweep_continues_from_the_previous_root() {
     check_error(
         api::sweep(r#"{"equations":"x^2 = a","input":"a","from":1,"to":2,"points":1}"#),
         "bad-request",
-        &["request.points"],
+        &["sweep.points"],
     );
 }
 
@@ -570,8 +567,8 @@ fn system_of_a_closure() {
     );
     check_error(
         api::solve_system_function(r#"{"x0":[1,"NaN"]}"#, noop),
-        "non-finite-input",
-        &["options.x0[1]"],
+        "bad-request",
+        &["options.x0[1]", "NaN"],
     );
     check_error(
         api::solve_system_function(r#"{"x0":[1,2],"bounds":[[0,1]]}"#, noop),

@@ -251,3 +251,20 @@ fn long_legal_inputs_are_read_and_solved_without_deep_recursion() {
         assert!(start.elapsed() < HANG * 4, "took {:?}", start.elapsed());
     }
 }
+
+/// A power folded at compile time (`pi ^ ceil(pi)` is `pi^4`, multiplied out by
+/// `functions::power`) counts as a multiplied power, so the comparison with meval's
+/// `powf` above knows to skip it (found by the property test above).
+#[test]
+fn folded_multiplied_powers_are_reported() {
+    for (text, multiplied) in [
+        ("pi ^ ceil(pi)", true),
+        ("2 ^ 0.5", true),
+        ("2 ^ 2.5", false),
+        ("x ^ 2", true),
+    ] {
+        let e = Expression::parse(text).unwrap();
+        let program = e.compile(&["x", "y", "z"]).unwrap();
+        assert_eq!(program.has_multiplied_powers(), multiplied, "{text}");
+    }
+}

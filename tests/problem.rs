@@ -228,3 +228,35 @@ fn requests_are_typed_and_errors_name_the_place() {
     let e = compile_error(r#"{"template": "pipes.colebrook", "equations": "x = 1"}"#);
     assert!(e.message.contains("not both"), "{}", e.message);
 }
+
+#[test]
+fn a_template_sweep_takes_its_input_in_the_unit_it_was_given_in() {
+    // Colebrook with D given in inches, swept in inches: the same friction factor as a
+    // solve at the last diameter given in mm (1 in = 25.4 mm exactly, NIST SP 811 B.8).
+    let p = problem(
+        r#"{"template": "pipes.colebrook", "unknown": "f",
+            "values": {"Re": 360000, "eps": [0.15, "mm"], "D": [12, "in"]}}"#,
+    );
+    let mut s = p
+        .sweep(&SweepSpec {
+            input: "D".into(),
+            from: 6.0,
+            to: 12.0,
+            points: 4.0,
+            spacing: None,
+            method: None,
+            tolerances: None,
+            guesses: None,
+        })
+        .unwrap();
+    let r = s.advance(10).unwrap().clone();
+    assert_eq!(r.input_unit.as_deref(), Some("in"));
+    assert_eq!(r.input, vec![6.0, 8.0, 10.0, 12.0]);
+    let at_end = problem(
+        r#"{"template": "pipes.colebrook", "unknown": "f",
+            "values": {"Re": 360000, "eps": [0.15, "mm"], "D": [304.8, "mm"]}}"#,
+    )
+    .solve(&SolveOptions::default())
+    .unwrap();
+    assert!(close(r.root[3], at_end.root.unwrap(), 1e-10), "{r:?}");
+}

@@ -7,7 +7,7 @@ mod adversarial;
 
 use proptest::prelude::*;
 use serde_json::Value;
-use tacit::api;
+use tacit::api::json as api;
 use tacit::broyden::{solve_system, SystemOptions};
 use tacit::roots_in_range::{roots_in_range, ScanOptions};
 use tacit::{solve, CertificateKind, MethodKind, Options, Start, Status, Stepper, Tolerances};

@@ -5,7 +5,7 @@
 // state), record.js (the printed record); solver.js holds every call for numbers, and
 // request.js reads the form. Text from users, links and storage goes in as text.
 
-import * as tacit from '../dist/pkg/tacit.js';
+import { init, catalogue, units, version } from '../dist/pkg/tacit.js';
 import { byId, download } from './dom.js';
 import { app, probe, hooks, notify, writeUrl, edited, currentTemplate, currentVariables, unknownList, FormError } from './ctx.js';
 import { normalizeTemplate, buildCatalogueNav } from './catalogue.js';
@@ -37,16 +37,18 @@ function solve() {
     }
     throw e;
   }
-  let r;
+  let solved;
   try {
-    r = solveBuilt(built);
+    solved = solveBuilt(built);
   } catch (e) {
     err.textContent = e.message;
     hideResults();
     if (e.code === 'internal-panic' || e.code === 'instance-aborted') notify('The solver stopped with an internal error. Reload the page to start it again; your calculation is kept in the link.');
     return null;
   }
-  app.lastResult = { built, r };
+  const { r, problem } = solved;
+  app.lastResult?.problem?.free();
+  app.lastResult = { built, r, problem };
   app.S.unsolved = false;
   writeUrl();
   presentResult(built, r);
@@ -151,6 +153,7 @@ function wire() {
     edited();
   });
   byId('sweep-input').addEventListener('change', (e) => { S().sweep.input = e.target.value; writeUrl(); });
+  byId('sweep-spacing').addEventListener('change', (e) => { S().sweep.spacing = e.target.value; writeUrl(); });
   for (const k of ['from', 'to', 'n']) onInput(`sweep-${k}`, (v) => { S().sweep[k] = v; writeUrl(); });
   byId('sweep-run').addEventListener('click', () => { S().sweep.input = byId('sweep-input').value; runSweep(); });
   byId('sweep-cancel').addEventListener('click', cancelSweep);
@@ -187,23 +190,23 @@ async function boot() {
     probe.marks.start = performance.now();
     app.wasm = await wasmBytes();
     probe.marks.inflated = performance.now();
-    await tacit.init(app.wasm.slice());
+    await init(app.wasm.slice());
     probe.marks.instantiated = performance.now();
   } catch (e) {
     byId('calc-title').textContent = 'The solver could not start';
     notify(`The solver could not start in this browser: ${e.message}`);
     return;
   }
-  byId('tool-version').textContent = tacit.version;
+  byId('tool-version').textContent = version;
   try {
-    app.templates = tacit.catalogue().map(normalizeTemplate).filter((t) => t.id);
+    app.templates = catalogue().map(normalizeTemplate).filter((t) => t.id);
   } catch (e) {
     app.templates = [];
     notify(`The template catalogue could not be read (${e.message}); your own equations and evaluation by hand still work.`);
   }
   for (const t of app.templates) app.byId.set(t.id, t);
   try {
-    for (const d of tacit.units()) app.units.set(d.dimension, d.units);
+    for (const d of units()) app.units.set(d.dimension, d.units);
   } catch {
     /* without the table, histories stay in SI units and say so */
   }

@@ -38,6 +38,7 @@ export function applyState(st, source, earlier = []) {
   // Who prepares and checks records stays from one calculation to the next.
   for (const k of ['preparedBy', 'checkedBy']) if (!state.record[k]) state.record[k] = app.S.record?.[k] ?? '';
   app.S = state;
+  app.lastResult?.problem?.free();
   app.lastResult = null;
   if (state.mode === 'external') {
     app.stepper?.free();

@@ -73,8 +73,6 @@ function readKnowns() {
   return out;
 }
 
-const asUnit = (u) => (typeof u === 'string' && u ? u : undefined);
-
 function readList(t) {
   const text = app.S.values[t.list.symbol]?.v ?? byId('list-text').value;
   const parts = text.split(/[\s,;]+/).filter(Boolean);
@@ -121,13 +119,14 @@ export function buildRequest() {
     const t = currentTemplate();
     if (!t) throw new FormError('Choose a template from the catalogue first.');
     if (!S.unknown) throw new FormError('Choose the quantity to find under "Solve for".');
-    // The array form of values, which also carries a list input as repeated entries.
-    const values = Object.entries(readKnowns()).map(([symbol, { value, unit }]) => ({ symbol, value, unit }));
-    if (t.list) for (const value of readList(t)) values.push({ symbol: t.list.symbol, value, unit: asUnit(t.list.unit) });
-    const req = { id: t.id, values, unknown: S.unknown, history: true, sensitivities: true, ...base };
+    // Every known with its unit; a list input (cash flows) as a list of numbers in its unit.
+    const values = Object.fromEntries(Object.entries(readKnowns()).map(([symbol, { value, unit }]) => [symbol, unit ? { value, unit } : value]));
+    if (t.list) values[t.list.symbol] = readList(t);
+    const spec = { template: t.id, values, unknown: S.unknown };
     const ru = chosenUnit(S.unknown);
-    if (ru) req.resultUnit = ru;
-    return { kind: 'template', req };
+    if (ru) spec.resultUnit = ru;
+    const opts = { history: true, sensitivities: true, ...base };
+    return { kind: 'template', spec, opts, req: { ...spec, ...opts } };
   }
   if (S.mode === 'custom') {
     const c = app.customCheck;
@@ -140,8 +139,9 @@ export function buildRequest() {
     const { guesses, bracket, ...rest } = base;
     let spec = unknowns;
     if (unknowns.length === 1 && (guesses || bracket)) spec = [{ name: unknowns[0], guesses: guesses ?? bracket }];
-    const req = { equations: S.equations, knowns, unknowns: spec, history: true, sensitivities: true, ...rest };
-    return { kind: 'equation', req, start: { guesses, bracket } };
+    const opts = { history: true, sensitivities: true, ...rest };
+    const problemSpec = { equations: S.equations, knowns, unknowns: spec };
+    return { kind: 'equation', spec: problemSpec, opts, req: { ...problemSpec, ...opts }, start: { guesses, bracket } };
   }
   throw new FormError('This mode has no Solve button.');
 }

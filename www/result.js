@@ -6,8 +6,8 @@
 import { h, clear, byId } from './dom.js';
 import { fmt, full, prettyUnit } from './format.js';
 import { symbolMathML } from './mathml.js';
-import { app, probe, hooks, currentTemplate, currentVariables, unknownList, variableOf, chosenUnit, meaningOf } from './ctx.js';
-import { convert, siToResultUnit, convertHistory, sampleCurve } from './solver.js';
+import { app, probe, hooks, currentTemplate, unknownList, meaningOf } from './ctx.js';
+import { sampleCurve } from './solver.js';
 import { settingsFacts } from './request.js';
 import { updateAnswerLines } from './setup.js';
 import { showHistory, showSystemHistory, RESIDUAL } from './history.js';
@@ -45,7 +45,7 @@ const FAILURE_WORDS = {
 /** What to try next, true for the case: a bracket is advised only when a sign change is known. */
 function advice(r, unit, system) {
   if (system) {
-    return 'On this page every unknown of a set starts at 1 (then 1.1), and from there the solver could not go on. Rescale the unknowns so that the answer is nearer 1, or give each unknown its own guesses through the JavaScript API (solveEquation with unknowns: [{ name, guesses }]).';
+    return 'On this page every unknown of a set starts at 1 (then 1.1), and from there the solver could not go on. Rescale the unknowns so that the answer is nearer 1, or give each unknown its own guesses through the JavaScript API (a problem whose unknowns each carry their guesses).';
   }
   if (r.bracket) {
     const [a, b] = r.bracket;
@@ -121,55 +121,10 @@ export function showResult(r, view) {
   if (view.caution) body.append(h('p', { class: 'caution', role: 'note' }, view.caution));
 }
 
-// Units of the US customary system in the unit table; when an input is given in one, other
-// quantities are shown in the same system.
-const US = /(^|[^A-Za-z])(in|ft|yd|mi|acre|gal|gpm|lb|lbf|kip|psi|psf|slug|Btu|hp|degF|ftH2O|mph)([^A-Za-z]|$)/;
-
-/** The units offered for an output: its dimension's units, its own unit first when the
- *  table writes it another way (°C for degC). */
-function unitChoices(o) {
-  const table = app.units.get(o.dimension) ?? [];
-  if (table.includes(o.unit)) return table;
-  return [o.unit, ...table.filter((u) => prettyUnit(u) !== prettyUnit(o.unit))];
-}
-
-function outputUnit(o, choices) {
-  const picked = app.outputUnits?.[o.symbol];
-  if (picked && choices.includes(picked)) return picked;
-  // The unit the user chose for a quantity of the same kind: the answer's first, then an input's.
-  const same = [...unknownList(), ...currentVariables().map((v) => v.symbol)].map(variableOf).find((v) => v?.dimension === o.dimension);
-  const theirs = same && chosenUnit(same.symbol);
-  if (theirs && choices.includes(theirs)) return theirs;
-  const usInputs = Object.values(app.S.values).some((e) => US.test(e.u ?? ''));
-  if (!usInputs || US.test(o.unit) || o.unit === '1') return o.unit;
-  // Feet before inches and miles: the usual choice for heads, speeds and areas.
-  return choices.find((u) => /ft/.test(u)) ?? choices.find((u) => US.test(u)) ?? o.unit;
-}
-
 function outputsTable(outputs) {
   const tb = h('tbody');
   for (const o of outputs) {
-    const choices = unitChoices(o);
-    const unit = outputUnit(o, choices);
-    let value = o.value;
-    try {
-      value = convert(o.value, o.unit, unit);
-    } catch {
-      /* shown in the template's unit */
-    }
-    const cell = h('td', { class: 'mono', title: full(value) }, fmt(value, 6));
-    let unitCell = prettyUnit(unit);
-    if (choices.length > 1) {
-      unitCell = h('select', { 'aria-label': `Unit of ${o.symbol}` }, choices.map((u) => h('option', { value: u }, prettyUnit(u) || 'ratio')));
-      unitCell.value = unit;
-      unitCell.addEventListener('change', () => {
-        app.outputUnits = { ...app.outputUnits, [o.symbol]: unitCell.value };
-        const v = convert(o.value, o.unit, unitCell.value);
-        cell.textContent = fmt(v, 6);
-        cell.title = full(v);
-      });
-    }
-    tb.append(h('tr', null, h('td', null, symbolMathML(o.symbol)), h('td', null, o.meaning ?? ''), cell, h('td', null, unitCell)));
+    tb.append(h('tr', null, h('td', null, symbolMathML(o.symbol)), h('td', null, o.meaning ?? ''), h('td', { class: 'mono', title: full(o.value) }, fmt(o.value, 6)), h('td', null, prettyUnit(o.unit))));
   }
   return h('div', { class: 'table-wrap', tabindex: '0', role: 'region', 'aria-label': 'Other quantities (scrolls sideways on a narrow screen)' }, h('table', { class: 'numbers outputs' }, h('caption', null, 'Other quantities at the solution'), tb));
 }
@@ -189,12 +144,9 @@ export function presentResult(built, r) {
     xLabel = unknownList()[0] ?? 'x';
   }
   const residualLabel = built.kind === 'template' ? 'Residual (left − right side of the equation, SI units)' : 'Residual (left − right side, in your units)';
-  const conv = siToResultUnit(built);
-  if (r.bracket) r.bracket = r.bracket.map(conv);
-  const outputs = (r.outputs ?? []).map((o) => ({ ...o, dimension: t?.raw.outputs?.find((x) => x.symbol === o.symbol)?.dimension ?? '' }));
   showResult(r, {
     answers,
-    outputs,
+    outputs: r.outputs ?? [],
     residualLabel,
     settings: settingsFacts({ ...built.req, ...built.start }, unit),
     notes: r.notes ?? [],
@@ -205,9 +157,10 @@ export function presentResult(built, r) {
     : 'No root found.';
   probe.solves++;
   if (probe.firstSolveMs === null) probe.firstSolveMs = performance.now();
-  const history = convertHistory(r.history ?? [], conv);
+  // Every x of the result (history, bracket, roots) is already in the unit chosen.
+  const history = r.history ?? [];
   const shortLabel = built.kind === 'template' ? 'residual (left − right, SI)' : RESIDUAL;
-  if (history.length) showHistory(history, sampleCurve(built, history, conv), xLabel, shortLabel);
+  if (history.length) showHistory(history, sampleCurve(app.lastResult?.problem, history), xLabel, shortLabel);
   else showSystemHistory(r.systemHistory, Object.keys(r.unknowns ?? {}), '‖residual‖');
   showSensitivities(r.sensitivities, meaningOf);
   hooks.showRootsCard?.(built, r);

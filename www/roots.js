@@ -42,7 +42,8 @@ function rootChoiceList(roots, unit) {
   roots.forEach((rt, i) => {
     const b = h('button', { type: 'button' }, 'Solve for this one');
     b.addEventListener('click', () => chooseRoot(rt.x));
-    ul.append(h('li', null, h('span', { class: 'mono' }, `${i + 1}. ${fmt(rt.x, 10)}${unit ? ` ${unit}` : ''}`), h('span', { class: 'hint' }, rt.kind === 'touching' ? 'touching (no sign change)' : 'sign change'), b));
+    const kind = rt.kind === 'touching' ? 'touching (no sign change)' : 'sign change';
+    ul.append(h('li', null, h('span', { class: 'mono' }, `${i + 1}. ${fmt(rt.x, 10)}${unit ? ` ${unit}` : ''}`), h('span', { class: 'hint' }, rt.label ? `${rt.label}, ${kind}` : kind), b));
   });
   return ul;
 }

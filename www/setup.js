@@ -5,7 +5,6 @@ import { h, clear, byId } from './dom.js';
 import { fmt, prettyUnit } from './format.js';
 import { equationToMathML, symbolMathML } from './mathml.js';
 import { app, hooks, currentTemplate, currentVariables, unknownList, variableOf, chosenUnit, edited } from './ctx.js';
-import { guessesIn } from './solver.js';
 import { runCustomCheck } from './custom.js';
 import { startKind } from './request.js';
 
@@ -254,8 +253,10 @@ export function renderStart() {
   else if (kind === 'default' && S.mode === 'template') {
     const v = variableOf(sym);
     const starter = v?.raw?.starter;
-    const g = guessesIn(v, chosenUnit(sym));
-    const fallback = g ? `the template's guesses for ${sym}, ${fmt(g[0])} and ${fmt(g[1])}${inUnit}` : `the template's guesses for ${sym}`;
+    // The template's guesses are in the variable's own unit; say which.
+    const g = Array.isArray(v?.guesses) && v.guesses.length === 2 ? v.guesses : null;
+    const gu = prettyUnit(v?.unit);
+    const fallback = g ? `the template's guesses for ${sym}, ${fmt(Number(g[0]))} and ${fmt(Number(g[1]))}${gu ? ` ${gu}` : ''}` : `the template's guesses for ${sym}`;
     hint = starter
       ? `The solver starts from ${starter.label}, an explicit approximation of ${sym} (${starter.source}), and from a point just beside it; where that is undefined it starts from ${fallback}.`
       : `The solver starts from ${fallback}.`;

@@ -24,7 +24,7 @@ export function defaultState() {
     start: { kind: 'default', a: '', b: '' },
     method: 'auto',
     tol: { xRel: '', xAbs: '', fAbs: '', maxEvals: '' },
-    sweep: { input: '', from: '', to: '', n: '' },
+    sweep: { input: '', from: '', to: '', n: '', spacing: 'linear' },
     external: { label: '', stepper: '' },
     // For the printed record: who it is for, who prepared it and who checked it.
     record: { project: '', preparedBy: '', checkedBy: '' },
@@ -116,6 +116,10 @@ export function validateState(data) {
       for (const k of ['from', 'to', 'n']) {
         const v = str(data.sweep[k] ?? '', 32, `sweep.${k}`, problems);
         if (v !== undefined) st.sweep[k] = v;
+      }
+      if (data.sweep.spacing !== undefined) {
+        if (data.sweep.spacing === 'linear' || data.sweep.spacing === 'log') st.sweep.spacing = data.sweep.spacing;
+        else problems.push('sweep.spacing is not linear or log');
       }
     }
   }

@@ -42,7 +42,7 @@ self.addEventListener('message', async (ev) => {
     try {
       await ready;
       const started = performance.now();
-      const result = runSweepJob(msg.job, (done, total) => postMessage({ type: 'progress', id: msg.id, done, total }));
+      const result = await runSweepJob(msg.job, (done, total) => postMessage({ type: 'progress', id: msg.id, done, total }));
       postMessage({ type: 'result', id: msg.id, result, ms: performance.now() - started });
     } catch (e) {
       postMessage({ type: 'error', id: msg.id, message: String(e && e.message), code: e && e.code, trapped: isTrap(e) });

@@ -73,6 +73,7 @@ export function renderSweepInputs() {
   byId('sweep-from').value = S.sweep.from;
   byId('sweep-to').value = S.sweep.to;
   byId('sweep-n').value = S.sweep.n;
+  byId('sweep-spacing').value = S.sweep.spacing === 'log' ? 'log' : 'linear';
 }
 
 function buildSweepJob() {
@@ -87,8 +88,10 @@ function buildSweepJob() {
   if (from === to) throw new FormError('The sweep range is empty: From equals To.');
   if (!Number.isInteger(n) || n < 2 || n > 100000) throw new FormError(`Sweep points must be a whole number from 2 to 100000, got ${S.sweep.n}.`);
   if (built.kind !== 'template' && unknownList().length !== 1) throw new FormError('A sweep solves for one unknown.');
+  const spacing = S.sweep.spacing === 'log' ? 'log' : 'linear';
+  if (spacing === 'log' && !(from > 0 && to > 0)) throw new FormError('Logarithmic spacing needs From and To above zero.');
   const unknown = unknownList()[0];
-  return { ...sweepJob(built, input, from, to, n), input, unknown, unit: prettyUnit(chosenUnit(unknown)), inputUnit: prettyUnit(chosenUnit(input)) };
+  return { ...sweepJob(built, input, from, to, n, spacing), input, unknown, spacing, unit: prettyUnit(chosenUnit(unknown)), inputUnit: prettyUnit(chosenUnit(input)) };
 }
 
 export function runSweep() {
@@ -125,7 +128,7 @@ export function runSweep() {
       if (m.type === 'result') {
         probe.sweeps++;
         probe.lastSweepMs = m.ms;
-        app.sweepResult = { ...spec, result: spec.finish ? spec.finish(m.result) : m.result, page: 0 };
+        app.sweepResult = { ...spec, result: m.result, page: 0 };
         showSweep(app.sweepResult);
         const failed = m.result.converged.filter((c) => !c).length;
         status.textContent = `${m.result.input.length} points in ${m.ms.toFixed(0)} ms, ${m.result.totalEvaluations} evaluations${failed ? `; ${failed} did not converge (marked)` : ''}.`;
@@ -166,14 +169,13 @@ probe.drillWorkerTrap = () => {
 };
 
 /** For the benchmark: the current sweep set-up with n points, run on the page thread. */
-probe.timeDirectSweep = (n) => {
+probe.timeDirectSweep = async (n) => {
   const saved = app.S.sweep.n;
   app.S.sweep.n = String(n);
   try {
     const spec = buildSweepJob();
     const t0 = performance.now();
-    const result = runSweepJob(spec.job);
-    if (spec.finish) spec.finish(result);
+    await runSweepJob(spec.job);
     return performance.now() - t0;
   } finally {
     app.S.sweep.n = saved;
@@ -200,9 +202,9 @@ function showSweep(sw) {
   result.input.forEach((x, i) => (result.converged[i] ? ok : bad).push([x, result.root[i]]));
   const xLabel = `${input}${inputUnit ? ` (${inputUnit})` : ''}`;
   const yLabel = `${unknown}${unit ? ` (${unit})` : ''}`;
-  // The points are evenly spaced, so the axis is linear.
+  // A logarithmic axis exactly when the points are spaced logarithmically.
   clear(byId('sweep-plot')).append(
-    plot({ title: `${unknown} against ${input}`, xLabel, yLabel, layers: [{ kind: 'line', cls: 'curve', data: ok }, { kind: 'points', cls: 'failed', data: bad.filter((p) => Number.isFinite(p[1])) }] }),
+    plot({ logX: sw.spacing === 'log', title: `${unknown} against ${input}`, xLabel, yLabel, layers: [{ kind: 'line', cls: 'curve', data: ok }, { kind: 'points', cls: 'failed', data: bad.filter((p) => Number.isFinite(p[1])) }] }),
   );
   byId('sweep-table-box').hidden = false;
   const head = clear(byId('sweep-table').tHead);

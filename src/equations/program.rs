@@ -278,6 +278,8 @@ pub struct Program {
     /// Values kept for re-use (common subexpressions).
     kept: usize,
     slots: usize,
+    /// A power folded at compile time was multiplied out.
+    multiplied_fold: bool,
 }
 
 /// The longest right operand moved over when a left operand is fused: keeps compiling
@@ -296,6 +298,7 @@ impl Program {
             starts: Vec::new(),
             max_depth: 0,
             slots: 0,
+            multiplied_fold: false,
         };
         for token in rpn {
             match token {
@@ -338,6 +341,7 @@ impl Program {
             depth,
             kept,
             slots: b.slots,
+            multiplied_fold: b.multiplied_fold,
         })
     }
 
@@ -371,16 +375,17 @@ impl Program {
     /// Whether the program raises to a power by multiplication
     /// ([`functions::power`]), where meval would call `powf`.
     pub fn has_multiplied_powers(&self) -> bool {
-        self.ops.iter().any(|op| match *op {
-            Op::PowInt(_)
-            | Op::LoadPowInt(..)
-            | Op::Pow
-            | Op::PowLoad(_)
-            | Op::ConstPow(_)
-            | Op::LoadPow(_) => true,
-            Op::PowConst(c) => c == 0.5 || functions::multiplied_exponent(c).is_some(),
-            _ => false,
-        })
+        self.multiplied_fold
+            || self.ops.iter().any(|op| match *op {
+                Op::PowInt(_)
+                | Op::LoadPowInt(..)
+                | Op::Pow
+                | Op::PowLoad(_)
+                | Op::ConstPow(_)
+                | Op::LoadPow(_) => true,
+                Op::PowConst(c) => c == 0.5 || functions::multiplied_exponent(c).is_some(),
+                _ => false,
+            })
     }
 
     /// Evaluates with a fresh stack.
@@ -527,6 +532,8 @@ struct Builder {
     starts: Vec<usize>,
     max_depth: usize,
     slots: usize,
+    /// Whether a folded power was multiplied out (see [`Program::has_multiplied_powers`]).
+    multiplied_fold: bool,
 }
 
 fn apply(op: Operation, left: f64, right: f64) -> f64 {
@@ -613,6 +620,11 @@ impl Builder {
     fn binary(&mut self, op: Operation) -> Result<(), CompileError> {
         self.need(2)?;
         if let Some(v) = self.constant_tail(2) {
+            if op == Operation::Pow
+                && (v[1] == 0.5 || functions::multiplied_exponent(v[1]).is_some())
+            {
+                self.multiplied_fold = true;
+            }
             self.replace_top(2, Op::Const(apply(op, v[0], v[1])));
             return Ok(());
         }

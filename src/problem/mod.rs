@@ -798,46 +798,7 @@ impl Problem {
             Kind::Template(t) => t.label_roots(&xs),
             Kind::Equations(_) => vec![None; xs.len()],
         };
-        let mut labelled = xs.iter().zip(labels);
-        let mut roots: Vec<RangeRootReport> = found
-            .roots
-            .iter()
-            .map(|r| {
-                let label = if r.converged {
-                    labelled.next().and_then(|(_, l)| l)
-                } else {
-                    None
-                };
-                RangeRootReport {
-                    x: c.from_si(r.x),
-                    fx: r.fx,
-                    kind: r.kind.code(),
-                    converged: r.converged,
-                    certificate: r
-                        .certificate
-                        .as_ref()
-                        .map(|k| CertificateReport::scalar(k, &c)),
-                    label,
-                }
-            })
-            .collect();
-        roots.sort_by(|p, q| p.x.total_cmp(&q.x));
-        Ok(RootsReport {
-            unit: self.unit(),
-            roots,
-            discontinuities: found
-                .discontinuities
-                .iter()
-                .filter_map(|&d| c.pair_from_si(Some(d)))
-                .collect(),
-            evaluations: found.evaluations,
-            samples: found.samples,
-            spacing: c.delta_from_si(found.spacing).abs(),
-            limits: found.limits,
-            proven: false,
-            regions: Vec::new(),
-            proof: None,
-        })
+        Ok(RootsReport::from_scan(&found, &c, labels, self.unit()))
     }
 
     /// The residual of the one equation as a compiled program of the one unknown in
@@ -998,7 +959,7 @@ impl Problem {
 
     /// Starts a sweep; [`Sweep::advance`] runs it in chunks.
     pub fn sweep(&self, spec: &SweepSpec) -> Result<Sweep<'_>, InputError> {
-        Sweep::new(self, spec)
+        Sweep::new(Held::Borrowed(self), spec)
     }
 }
 
@@ -1104,7 +1065,7 @@ fn set_report(s: &SetSolution, c: &Conversion, cert: &Conversion) -> SolveReport
 /// from the previous root, reusing the compiled problem. Run it in chunks with
 /// [`Sweep::advance`] so that a page can show progress and cancel.
 pub struct Sweep<'p> {
-    problem: &'p Problem,
+    problem: Held<'p>,
     input: String,
     /// The input's conversion to SI.
     input_conv: Conversion,
@@ -1116,8 +1077,36 @@ pub struct Sweep<'p> {
     before: Option<f64>,
 }
 
+/// The problem a sweep runs on: borrowed, or shared with a handle that outlives the
+/// borrow (the bindings' sweep handle).
+enum Held<'p> {
+    Borrowed(&'p Problem),
+    Shared(std::rc::Rc<Problem>),
+}
+
+impl std::ops::Deref for Held<'_> {
+    type Target = Problem;
+    fn deref(&self) -> &Problem {
+        match self {
+            Held::Borrowed(p) => p,
+            Held::Shared(p) => p,
+        }
+    }
+}
+
+impl Sweep<'static> {
+    /// A sweep that shares the problem, so that it can be kept apart from it.
+    pub fn shared(
+        problem: std::rc::Rc<Problem>,
+        spec: &SweepSpec,
+    ) -> Result<Sweep<'static>, InputError> {
+        Sweep::new(Held::Shared(problem), spec)
+    }
+}
+
 impl<'p> Sweep<'p> {
-    fn new(problem: &'p Problem, spec: &SweepSpec) -> Result<Sweep<'p>, InputError> {
+    fn new(held: Held<'p>, spec: &SweepSpec) -> Result<Sweep<'p>, InputError> {
+        let problem: &Problem = &held;
         let name = problem.one_unknown("a sweep")?.to_string();
         short(&spec.input, "sweep.input")?;
         crate::error::require_finite(spec.from, "sweep.from")?;
@@ -1179,13 +1168,21 @@ impl<'p> Sweep<'p> {
                         "sweep.input is the unknown itself; sweep one of the knowns",
                     ));
                 }
-                let row = units::unit_in(&var.unit, &var.dimension)?;
+                // from and to are in the unit the input was given in (its default
+                // unit when it was not given).
+                let unit = t
+                    .req
+                    .values
+                    .iter()
+                    .find(|(s, _, _)| s == &spec.input)
+                    .map_or_else(|| var.unit.clone(), |(_, _, u)| u.clone());
+                let row = units::unit_in(&unit, &var.dimension)?;
                 (
                     Conversion {
                         factor: row.factor,
                         offset: row.offset,
                     },
-                    Some(var.unit.clone()),
+                    Some(unit),
                 )
             }
             Kind::Equations(e) => {
@@ -1223,14 +1220,16 @@ impl<'p> Sweep<'p> {
                 }
             }
         };
+        let (unit, input) = (problem.unit(), spec.input.clone());
         Ok(Sweep {
-            problem,
-            input: spec.input.clone(),
+            problem: held,
+            input,
             input_conv,
             report: SweepReport {
                 input_name: spec.input.clone(),
                 input_unit,
-                unit: problem.unit(),
+                unit,
+                unknown: Some(name.clone()),
                 points: n,
                 ..SweepReport::default()
             },

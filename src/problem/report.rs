@@ -9,6 +9,7 @@ use serde::Serialize;
 
 use crate::certificate::Certificate;
 use crate::outcome::HistoryRow;
+use crate::roots_in_range::RangeRoots;
 
 /// A value of the unknown in the caller's unit, from SI, and a difference of two.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -375,6 +376,55 @@ pub struct ProofCostReport {
     pub point_values: usize,
 }
 
+impl RootsReport {
+    /// A range scan's findings with every x converted by `c`; `labels` name the
+    /// converged roots in order (a template's branches), `unit` is the unit of x.
+    pub fn from_scan(
+        found: &RangeRoots,
+        c: &Conversion,
+        labels: Vec<Option<String>>,
+        unit: Option<String>,
+    ) -> RootsReport {
+        let mut labels = labels.into_iter();
+        let mut roots: Vec<RangeRootReport> = found
+            .roots
+            .iter()
+            .map(|r| RangeRootReport {
+                x: c.from_si(r.x),
+                fx: r.fx,
+                kind: r.kind.code(),
+                converged: r.converged,
+                certificate: r
+                    .certificate
+                    .as_ref()
+                    .map(|k| CertificateReport::scalar(k, c)),
+                label: if r.converged {
+                    labels.next().flatten()
+                } else {
+                    None
+                },
+            })
+            .collect();
+        roots.sort_by(|p, q| p.x.total_cmp(&q.x));
+        RootsReport {
+            unit,
+            roots,
+            discontinuities: found
+                .discontinuities
+                .iter()
+                .filter_map(|&d| c.pair_from_si(Some(d)))
+                .collect(),
+            evaluations: found.evaluations,
+            samples: found.samples,
+            spacing: c.delta_from_si(found.spacing).abs(),
+            limits: found.limits.clone(),
+            proven: false,
+            regions: Vec::new(),
+            proof: None,
+        }
+    }
+}
+
 /// f sampled over a range: `x` in the unknown's unit.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 #[serde(rename_all = "camelCase")]
@@ -388,6 +438,8 @@ pub struct SampleReport {
 #[derive(Debug, Clone, PartialEq, Default, Serialize)]
 #[serde(rename_all = "camelCase")]
 pub struct SweepReport {
+    /// The unknown solved at every point.
+    pub unknown: Option<String>,
     pub input_name: String,
     pub input_unit: Option<String>,
     pub unit: Option<String>,

@@ -22,10 +22,22 @@ where
         let path = e.path().to_string();
         let place = if path == "." || path.is_empty() {
             what.to_string()
+        } else if let Some(rest) = path.strip_prefix('.') {
+            format!("{what}{rest}")
+        } else if path.starts_with('[') {
+            format!("{what}{path}")
         } else {
             format!("{what}.{path}")
         };
-        InputError::new("bad-request", format!("{place}: {}", e.into_inner()))
+        let message = e.into_inner().to_string();
+        // "missing field `x`" names the field: say it where it is missing.
+        if let Some(name) = message
+            .strip_prefix("missing field `")
+            .and_then(|rest| rest.split('`').next())
+        {
+            return InputError::new("bad-request", format!("{place}.{name} is missing"));
+        }
+        InputError::new("bad-request", format!("{place}: {message}"))
     })
 }
 
@@ -41,6 +53,13 @@ pub fn from_json<T: for<'de> Deserialize<'de>>(what: &str, text: &str) -> Result
             ),
         ));
     }
+    // serde's structs would also read a list, item by item, as their fields in order.
+    if text.trim_start().starts_with('[') {
+        return Err(InputError::new(
+            "bad-request",
+            format!("{what} must be an object {{…}}, got a list"),
+        ));
+    }
     let mut de = serde_json::Deserializer::from_str(text);
     let value = read(what, &mut de)?;
     de.end()
@@ -48,10 +67,13 @@ pub fn from_json<T: for<'de> Deserialize<'de>>(what: &str, text: &str) -> Result
     Ok(value)
 }
 
+/// Most entries of one list or map in a request (knowns, values, units, cash flows,
+/// starting values): each is read into memory, so each is bounded.
+pub const MAX_ENTRIES: usize = 10_000;
+
 /// A quantity: a number (in the variable's own unit), `{value, unit}` or
 /// `[value, unit]`.
-#[derive(Debug, Clone, PartialEq, Deserialize)]
-#[serde(untagged, expecting = "a number, {value, unit} or [value, unit]")]
+#[derive(Debug, Clone, PartialEq)]
 pub enum Quantity {
     Number(f64),
     Pair(f64, String),
@@ -84,14 +106,253 @@ impl Quantity {
 
 /// A template's known: one quantity, or a list of numbers (the list input, such as
 /// cash flows, in its own unit).
-#[derive(Debug, Clone, PartialEq, Deserialize)]
-#[serde(
-    untagged,
-    expecting = "a number, {value, unit}, [value, unit] or a list of numbers"
-)]
+#[derive(Debug, Clone, PartialEq)]
 pub enum Known {
     One(Quantity),
     List(Vec<f64>),
+}
+
+/// The number-or-object inputs are read by small visitors rather than `untagged`
+/// enums: an untagged enum buffers the whole value first (deep recursion on a deeply
+/// nested input) and can only say that no variant matched.
+mod visit {
+    use super::{Known, Quantity, QuantityObject, MAX_ENTRIES};
+    use serde::de::{self, Deserialize, Deserializer, MapAccess, SeqAccess, Visitor};
+    use std::fmt;
+
+    /// A number or a string, the items of `[value, unit]` and of a list of numbers.
+    pub(super) enum Item {
+        Number(f64),
+        Text(String),
+    }
+
+    impl<'de> Deserialize<'de> for Item {
+        fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Item, D::Error> {
+            struct V;
+            impl<'de> Visitor<'de> for V {
+                type Value = Item;
+                fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+                    f.write_str("a number or a unit")
+                }
+                fn visit_f64<E: de::Error>(self, v: f64) -> Result<Item, E> {
+                    Ok(Item::Number(v))
+                }
+                fn visit_i64<E: de::Error>(self, v: i64) -> Result<Item, E> {
+                    Ok(Item::Number(v as f64))
+                }
+                fn visit_u64<E: de::Error>(self, v: u64) -> Result<Item, E> {
+                    Ok(Item::Number(v as f64))
+                }
+                fn visit_str<E: de::Error>(self, v: &str) -> Result<Item, E> {
+                    Ok(Item::Text(v.to_string()))
+                }
+                fn visit_string<E: de::Error>(self, v: String) -> Result<Item, E> {
+                    Ok(Item::Text(v))
+                }
+            }
+            d.deserialize_any(V)
+        }
+    }
+
+    /// What one visitor accepts: a quantity only, or a quantity or a list of numbers.
+    struct KnownVisitor {
+        lists: bool,
+    }
+
+    impl KnownVisitor {
+        fn list_of<'de, A: SeqAccess<'de>>(first: f64, mut seq: A) -> Result<Known, A::Error> {
+            let mut items = vec![first];
+            while let Some(item) = seq.next_element::<f64>()? {
+                if items.len() >= MAX_ENTRIES {
+                    return Err(de::Error::custom(format!(
+                        "a list of more than {MAX_ENTRIES} numbers; the limit is {MAX_ENTRIES}"
+                    )));
+                }
+                items.push(item);
+            }
+            Ok(Known::List(items))
+        }
+    }
+
+    impl<'de> Visitor<'de> for KnownVisitor {
+        type Value = Known;
+        fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+            if self.lists {
+                f.write_str("a number, {value, unit}, [value, unit] or a list of numbers")
+            } else {
+                f.write_str("a number, {value, unit} or [value, unit]")
+            }
+        }
+        fn visit_f64<E: de::Error>(self, v: f64) -> Result<Known, E> {
+            Ok(Known::One(Quantity::Number(v)))
+        }
+        fn visit_i64<E: de::Error>(self, v: i64) -> Result<Known, E> {
+            Ok(Known::One(Quantity::Number(v as f64)))
+        }
+        fn visit_u64<E: de::Error>(self, v: u64) -> Result<Known, E> {
+            Ok(Known::One(Quantity::Number(v as f64)))
+        }
+        fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<Known, A::Error> {
+            let first = match seq.next_element::<Item>()? {
+                Some(Item::Number(v)) => v,
+                Some(Item::Text(_)) => {
+                    return Err(de::Error::custom("[value, unit] starts with the number"))
+                }
+                None => return Err(de::Error::invalid_length(0, &self)),
+            };
+            match seq.next_element::<Item>()? {
+                Some(Item::Text(unit)) => {
+                    if seq.next_element::<de::IgnoredAny>()?.is_some() {
+                        return Err(de::Error::custom(
+                            "[value, unit] has two items; more were given",
+                        ));
+                    }
+                    Ok(Known::One(Quantity::Pair(first, unit)))
+                }
+                Some(Item::Number(second)) if self.lists => {
+                    match KnownVisitor::list_of(second, seq)? {
+                        Known::List(mut rest) => {
+                            rest.insert(0, first);
+                            Ok(Known::List(rest))
+                        }
+                        one => Ok(one),
+                    }
+                }
+                None if self.lists => Ok(Known::List(vec![first])),
+                _ => Err(de::Error::custom("expected [value, unit]")),
+            }
+        }
+        fn visit_map<A: MapAccess<'de>>(self, map: A) -> Result<Known, A::Error> {
+            let o = QuantityObject::deserialize(de::value::MapAccessDeserializer::new(map))?;
+            Ok(Known::One(Quantity::Object(o)))
+        }
+    }
+
+    impl<'de> Deserialize<'de> for Known {
+        fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Known, D::Error> {
+            d.deserialize_any(KnownVisitor { lists: true })
+        }
+    }
+
+    impl<'de> Deserialize<'de> for Quantity {
+        fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Quantity, D::Error> {
+            match d.deserialize_any(KnownVisitor { lists: false })? {
+                Known::One(q) => Ok(q),
+                Known::List(_) => Err(de::Error::custom("expected a quantity, got a list")),
+            }
+        }
+    }
+
+    impl<'de> Deserialize<'de> for super::UnknownInput {
+        fn deserialize<D: Deserializer<'de>>(d: D) -> Result<super::UnknownInput, D::Error> {
+            struct V;
+            impl<'de> Visitor<'de> for V {
+                type Value = super::UnknownInput;
+                fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+                    f.write_str("a name or {name, guesses?, bounds?, unit?}")
+                }
+                fn visit_str<E: de::Error>(self, v: &str) -> Result<Self::Value, E> {
+                    Ok(super::UnknownInput::Name(v.to_string()))
+                }
+                fn visit_string<E: de::Error>(self, v: String) -> Result<Self::Value, E> {
+                    Ok(super::UnknownInput::Name(v))
+                }
+                fn visit_map<A: MapAccess<'de>>(self, map: A) -> Result<Self::Value, A::Error> {
+                    let o = super::UnknownObject::deserialize(
+                        de::value::MapAccessDeserializer::new(map),
+                    )?;
+                    Ok(super::UnknownInput::Spec(o))
+                }
+            }
+            d.deserialize_any(V)
+        }
+    }
+}
+
+/// Readers of lists and maps that stop at [`MAX_ENTRIES`] (or a smaller limit) instead
+/// of growing without bound; for `#[serde(deserialize_with)]`.
+pub mod bounded {
+    use serde::de::{self, Deserialize, Deserializer, MapAccess, SeqAccess, Visitor};
+    use std::collections::BTreeMap;
+    use std::fmt;
+    use std::marker::PhantomData;
+
+    struct SeqV<T>(usize, PhantomData<T>);
+
+    impl<'de, T: Deserialize<'de>> Visitor<'de> for SeqV<T> {
+        type Value = Vec<T>;
+        fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+            write!(f, "a list of at most {} items", self.0)
+        }
+        fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> Result<Vec<T>, A::Error> {
+            let mut out = Vec::new();
+            while let Some(item) = seq.next_element::<T>()? {
+                if out.len() >= self.0 {
+                    return Err(de::Error::custom(format!(
+                        "more than {} items; the limit is {}",
+                        self.0, self.0
+                    )));
+                }
+                out.push(item);
+            }
+            Ok(out)
+        }
+    }
+
+    struct MapV<T>(PhantomData<T>);
+
+    impl<'de, T: Deserialize<'de>> Visitor<'de> for MapV<T> {
+        type Value = BTreeMap<String, T>;
+        fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+            write!(f, "an object of at most {} names", super::MAX_ENTRIES)
+        }
+        fn visit_map<A: MapAccess<'de>>(self, mut map: A) -> Result<Self::Value, A::Error> {
+            let mut out = BTreeMap::new();
+            while let Some((k, v)) = map.next_entry::<String, T>()? {
+                if out.len() >= super::MAX_ENTRIES {
+                    return Err(de::Error::custom(format!(
+                        "more than {0} names; the limit is {0}",
+                        super::MAX_ENTRIES
+                    )));
+                }
+                out.insert(k, v);
+            }
+            Ok(out)
+        }
+    }
+
+    /// A list of at most `MAX_ENTRIES` items, or absent.
+    pub fn opt_vec<'de, D, T>(d: D) -> Result<Option<Vec<T>>, D::Error>
+    where
+        D: Deserializer<'de>,
+        T: Deserialize<'de>,
+    {
+        Option::<Wrap<Vec<T>>>::deserialize(d).map(|o| o.map(|w| w.0))
+    }
+
+    /// An object `{name: T}` of at most `MAX_ENTRIES` names, or absent.
+    pub fn opt_map<'de, D, T>(d: D) -> Result<Option<BTreeMap<String, T>>, D::Error>
+    where
+        D: Deserializer<'de>,
+        T: Deserialize<'de>,
+    {
+        Option::<Wrap<BTreeMap<String, T>>>::deserialize(d).map(|o| o.map(|w| w.0))
+    }
+
+    struct Wrap<T>(T);
+
+    impl<'de, T: Deserialize<'de>> Deserialize<'de> for Wrap<Vec<T>> {
+        fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+            d.deserialize_seq(SeqV(super::MAX_ENTRIES, PhantomData))
+                .map(Wrap)
+        }
+    }
+
+    impl<'de, T: Deserialize<'de>> Deserialize<'de> for Wrap<BTreeMap<String, T>> {
+        fn deserialize<D: Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+            d.deserialize_map(MapV(PhantomData)).map(Wrap)
+        }
+    }
 }
 
 /// Bounds `[lower, upper]`, either end `null` or infinite for none.
@@ -108,8 +369,7 @@ pub fn bounds(b: Option<BoundsInput>, place: &str) -> Result<Bounds, InputError>
 }
 
 /// One unknown of an equation set: a name, or `{name, guesses?, bounds?, unit?}`.
-#[derive(Debug, Clone, PartialEq, Deserialize)]
-#[serde(untagged, expecting = "a name or {name, guesses?, bounds?, unit?}")]
+#[derive(Debug, Clone, PartialEq)]
 pub enum UnknownInput {
     Name(String),
     Spec(UnknownObject),
@@ -145,22 +405,22 @@ pub struct ProblemSpec {
     #[serde(default, alias = "id")]
     pub template: Option<String>,
     /// The template's knowns in any unit it accepts.
-    #[serde(default)]
+    #[serde(default, deserialize_with = "bounded::opt_map")]
     pub values: Option<BTreeMap<String, Known>>,
     /// The equation text; give it or `template`.
     #[serde(default)]
     pub equations: Option<String>,
     /// The equations' knowns; a number is in `units[name]` (or has no unit).
-    #[serde(default)]
+    #[serde(default, deserialize_with = "bounded::opt_map")]
     pub knowns: Option<BTreeMap<String, Quantity>>,
     /// The unit of each variable of the equations.
-    #[serde(default)]
+    #[serde(default, deserialize_with = "bounded::opt_map")]
     pub units: Option<BTreeMap<String, String>>,
     /// The one unknown (a template's, or an equation's when only one is left).
     #[serde(default)]
     pub unknown: Option<String>,
     /// The equations' unknowns, with guesses and bounds.
-    #[serde(default)]
+    #[serde(default, deserialize_with = "bounded::opt_vec")]
     pub unknowns: Option<Vec<UnknownInput>>,
     /// A template's answer unit (the variable's default unit when absent).
     #[serde(default)]

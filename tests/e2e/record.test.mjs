@@ -4,7 +4,7 @@
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
 import { join } from 'node:path';
-import { launch, openPage, checkClean, pickTemplate, setValue, chooseUnknown, solveAndRead, fragmentFor, axeSerious, lookShot, ARTIFACTS } from './lib.mjs';
+import { launch, openPage, checkClean, pickTemplate, setValue, chooseUnknown, historyRows, axeSerious, lookShot, ARTIFACTS } from './lib.mjs';
 
 let browser;
 before(async () => { browser = await launch(); });
@@ -82,9 +82,11 @@ test('after Solve the answer is in view on a phone; the unknown has no stale val
   assert.equal(await page.locator('#val-D').count(), 0, 'the unknown leaves the inputs');
   await page.selectOption('#unit-D', 'in');
   const hint = await page.textContent('#start-hint');
-  assert.match(hint, /guesses for D/);
-  assert.match(hint, / in\.?$|\bin\b/);
-  assert.doesNotMatch(hint, /Re|f,/);
+  assert.match(hint, /guesses for D, 100 and 1000 mm/, `the hint names the unknown's guesses and their unit (${hint})`);
+  assert.doesNotMatch(hint, /guesses for (Re|f)\b/);
+  await page.click('input[name=start-kind][value=guesses]');
+  assert.match(await page.textContent('#start-hint'), /Two different values of D, in in;/);
+  await page.click('input[name=start-kind][value=default]');
   await page.fill('#val-f', '0.02');
   await page.evaluate(() => window.scrollTo(0, 0));
   await solved(page);
@@ -96,6 +98,12 @@ test('after Solve the answer is in view on a phone; the unknown has no stale val
   const line = await page.textContent('#answer-line-D');
   assert.match(line, /^\d/, `the answer line shows the answer (${line})`);
   assert.equal(await page.textContent('#result .answer .unit'), 'in');
+  // The history is in the unit of the answer: its best point is the answer.
+  assert.equal(await page.textContent('#history-table thead th:nth-child(2)'), 'D (in)');
+  const rows = await historyRows(page);
+  const answerD = Number(await page.getAttribute('[data-testid="answer-D"]', 'data-value'));
+  const best = rows.reduce((a, b) => (Math.abs(b.fx) < Math.abs(a.fx) ? b : a));
+  assert.ok(Math.abs(best.x - answerD) <= 1e-9 * answerD, `best evaluated D ${best.x} in, answer ${answerD} in`);
   checkClean(log);
 });
 
@@ -131,9 +139,11 @@ test('units and numbers: other quantities follow US inputs, typeset units, label
   await setValue(page, 'L', 8000, 'ft');
   await setValue(page, 'eps', 0.006, 'in');
   await solved(page);
-  const outputs = await page.$$eval('#result table.outputs tr', (trs) => trs.map((tr) => [tr.children[0].textContent, tr.querySelector('select')?.value ?? tr.children[3].textContent]));
-  const v = outputs.find(([s]) => s === 'V');
-  assert.equal(v[1], 'ft/s', 'mean velocity in US units beside US inputs');
+  // Other quantities come in the unit the core reports them in, typeset and named.
+  const outputs = await page.$$eval('#result table.outputs tr', (trs) => trs.map((tr) => [tr.children[0].textContent, tr.children[3].textContent]));
+  assert.deepEqual(outputs.find(([s]) => s === 'V'), ['V', 'm/s']);
+  assert.equal(outputs.find(([s]) => s === 'Re')[1], '', 'no "1" on a dimensionless quantity');
+
   const body = await page.textContent('main');
   assert.doesNotMatch(body, /\de\+\d|\de-\d/, 'one number format (×10ⁿ), no e+ notation');
   assert.doesNotMatch(body, /SI units\.\)/);
@@ -222,6 +232,17 @@ test('sweeps: the plot first on a linear axis, the table behind it a page at a t
   await page.click('#sweep-table-box summary');
   await page.click('#sweep-next');
   assert.equal(await page.textContent('#sweep-page-text'), 'Rows 201–400 of 20000');
+  // Logarithmically spaced points over decades: a logarithmic axis.
+  await page.selectOption('#sweep-spacing', 'log');
+  await page.fill('#sweep-from', '5000');
+  await page.fill('#sweep-to', '10000000');
+  await page.fill('#sweep-n', '60');
+  const m = await page.evaluate(() => globalThis.tacitPage.sweeps);
+  await page.click('#sweep-run');
+  await page.waitForFunction((k) => globalThis.tacitPage.sweeps > k, m);
+  assert.ok((await page.locator('#sweep-plot .tick tspan.sup').count()) >= 3, 'decades on the x-axis');
+  const firstTwo = await page.$$eval('#sweep-table tbody tr td:first-child', (tds) => tds.slice(0, 2).map((t) => Number(t.title)));
+  assert.ok(firstTwo[1] / firstTwo[0] > 1.1, `the points are spaced by ratio (${firstTwo})`);
   checkClean(log);
 });
 

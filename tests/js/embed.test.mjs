@@ -77,8 +77,10 @@ test("a template with a list input: rate of return of cash flows", () => {
   assert.equal(r.converged, true);
   // The internal rate of return is the rate at which the net present value is zero
   // (its definition; common practice, no source), evaluated here in JS.
-  // `value` is in the result unit; `unknowns` holds the SI value (a plain fraction).
-  const rate = r.unknowns.r;
+  // `value`, `root` and `unknowns` are all in the result unit; `rootSi` is the plain fraction.
+  assert.equal(r.unknowns.r, r.value);
+  assert.equal(r.root, r.value);
+  const rate = r.rootSi;
   close(tacit.convertUnit(rate, "1", r.unit), r.value, 1e-12, "rate in its unit");
   const npv = flows.reduce((sum, c, k) => sum + c / (1 + rate) ** k, 0);
   assert.ok(Math.abs(npv) < 1e-6, `NPV at ${rate} is ${npv}`);

@@ -241,6 +241,18 @@ test("callbacks that throw or return garbage give callback errors", async () => 
   assertStillSolves();
 });
 
+test("one long text shared by many fields is refused before it fills the memory", () => {
+  // 3 MB of text, used as the unit of 10 000 names: 30 GB if each were copied.
+  const long = "m".repeat(3_000_000);
+  const units = {};
+  for (let i = 0; i < 10_000; i++) units[`v${i}`] = long;
+  assert.throws(
+    () => tacit.solveEquation({ equations: "x = 1", units }),
+    (e) => e instanceof tacit.TacitError && e.code === "bad-request" && /limit/.test(e.message),
+  );
+  assertStillSolves();
+});
+
 test("a throwing callback's own error is kept as the cause", () => {
   const boom = new Error("rig offline");
   assert.throws(
@@ -301,15 +313,15 @@ test("the raw wasm-bindgen exports never trap either", () => {
     }
     survive("StepperHandle.create", () => core.StepperHandle.create(g), { tacitOnly: false });
     survive("StepperHandle.restore", () => core.StepperHandle.restore(g), { tacitOnly: false });
-    const h = core.StepperHandle.create('{"guesses":[1,2]}');
+    const h = core.StepperHandle.create({ guesses: [1, 2] });
     survive("StepperHandle.tell", () => h.tell(g), { tacitOnly: false });
     h.free();
     survive("freed handle", () => h.next(), { tacitOnly: false });
   }
   survive("a raw callback that throws", () => core.findRootsFunction(() => {
     throw new Error("x");
-  }, '{"range":[0,1]}'), { tacitOnly: false });
-  survive("a raw system callback that returns a plain array", () => core.solveSystemFunction(() => [0, 0], '{"x0":[1,2]}'), { tacitOnly: false });
+  }, { range: [0, 1] }), { tacitOnly: false });
+  survive("a raw system callback that returns a plain array", () => core.solveSystemFunction(() => [0, 0], { x0: [1, 2] }), { tacitOnly: false });
   assert.equal(core.lastPanic(), undefined, "no panic happened");
   assertStillSolves();
 });

@@ -28,7 +28,7 @@ test("the 1e7-budget request with history is a clear error, and the instance liv
         tolerances: { maxEvals: 1e7 },
         history: true,
       }),
-    (e) => e.code === "bad-request" && /maxEvals/.test(e.message) && /1000000/.test(e.message),
+    (e) => e.code === "bad-tolerance" && /maxEvals/.test(e.message) && /1000000/.test(e.message),
   );
   // The largest budget returns a result with a bounded history, in seconds.
   const r = tacit.solveEquation({
@@ -50,7 +50,7 @@ test("solveFunction with the same options is an error, not a borrow failure", ()
   // Trust issue: "attempted to take ownership of Rust value while it was borrowed".
   assert.throws(
     () => tacit.solveFunction((x) => x * x + 1, { guesses: [1, 2], method: "secant", tolerances: { maxEvals: 1e7 }, history: true }),
-    { code: "bad-request" },
+    { code: "bad-tolerance" },
   );
   const r = tacit.solveFunction((x) => x * x + 1, { guesses: [1, 2], method: "secant", tolerances: { maxEvals: 1e6 }, history: true });
   assert.equal(r.converged, false);
