@@ -11,7 +11,7 @@ import { defaultState, decodeFragment, encodeFragment, validateState, compactSta
 import { loadSaved, writeSaved, exportText, importText, newId, loadExternal, writeExternal } from './storage.js';
 import { showResult, showHistory, showSensitivities, hideResults, kindWords } from './results.js';
 import { plot } from './plot.js';
-import { wasmBytes } from './wasm-bytes.js';
+import { wasmBytes, wasmModule } from './wasm-bytes.js';
 import { runSweepJob } from './sweep-run.js';
 
 const CAUTION = 'Results support, and do not replace, checks by a licensed professional under local codes.';
@@ -1222,7 +1222,7 @@ async function boot() {
     probe.marks.start = performance.now();
     app.wasm = await wasmBytes();
     probe.marks.inflated = performance.now();
-    await tacit.init(app.wasm.slice());
+    await tacit.init(wasmModule());
     probe.marks.instantiated = performance.now();
   } catch (e) {
     byId('calc-title').textContent = 'The solver could not start';
