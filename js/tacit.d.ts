@@ -750,10 +750,24 @@ export type CheckResult =
       caret?: string;
     };
 
-/** A value to initialise with: the .wasm bytes, a compiled module, or where to fetch it from. */
-export type WasmSource = BufferSource | WebAssembly.Module | URL | string | Response;
+/**
+ * A value to initialise with: the .wasm bytes, a compiled module, where to fetch it from
+ * (a URL or a string; under Node a path or a file: URL is read from disk), or a Response or
+ * a Promise of one, such as `fetch(url)` (compiled while it streams in).
+ */
+export type WasmSource =
+  | BufferSource
+  | WebAssembly.Module
+  | URL
+  | string
+  | Response
+  | PromiseLike<Response | BufferSource | WebAssembly.Module>;
 
-/** Loads the WebAssembly module. Call once before anything else; later calls do nothing. */
+/**
+ * Loads the WebAssembly module. Call once before anything else; later calls do nothing.
+ * With no argument: browsers fetch tacit_core_bg.wasm next to the module, Node reads it.
+ * Fails with a `TacitError` of code `init-failed` (or `bad-type` for a wrong argument).
+ */
 export function init(wasm?: WasmSource): Promise<void>;
 /** Synchronous initialisation from bytes or a compiled module. */
 export function initSync(wasm: BufferSource | WebAssembly.Module): void;

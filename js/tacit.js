@@ -23,9 +23,6 @@ let ready = false;
 let pending = null;
 let aborted = null;
 
-const isNode =
-  typeof process !== "undefined" && process.versions != null && process.versions.node != null;
-
 function isThenable(v) {
   try {
     return v !== null && (typeof v === "object" || typeof v === "function") && typeof v.then === "function";
@@ -69,32 +66,31 @@ function checkSource(wasm) {
     wasm instanceof ArrayBuffer ||
     ArrayBuffer.isView(wasm) ||
     wasm instanceof WebAssembly.Module ||
-    (typeof Response !== "undefined" && wasm instanceof Response);
+    (typeof Response !== "undefined" && wasm instanceof Response) ||
+    isThenable(wasm);
   if (!ok) {
     throw new TacitError(
       "bad-type",
-      `init() takes the .wasm bytes, a WebAssembly.Module, a URL or a path; got ${describe(wasm)}`,
+      `init() takes the .wasm bytes, a WebAssembly.Module, a URL, a Response or a Promise of one (such as fetch(url)); got ${describe(wasm)}`,
     );
   }
 }
 
 /**
- * Loads the WebAssembly module. With no argument it loads tacit_core_bg.wasm next to
- * this file (fetched in browsers, read from disk in Node). Later calls do nothing.
+ * Loads the WebAssembly module. With no argument it fetches tacit_core_bg.wasm next to this
+ * file; a URL or a string is fetched; a Response, or a Promise of one such as `fetch(url)`,
+ * is compiled as it streams in. Later calls do nothing. This is the browser entry and has
+ * no Node import: under Node the package's `node` export (tacit-node.js) reads paths and
+ * file: URLs from disk and then calls this.
  */
 export async function init(wasm) {
   checkSource(wasm);
   if (ready) return;
   if (pending === null) {
     pending = (async () => {
-      let source = wasm ?? new URL("./tacit_core_bg.wasm", import.meta.url);
-      const isFile =
-        source instanceof URL
-          ? source.protocol === "file:"
-          : typeof source === "string" && !/^(https?|data|blob):/i.test(source);
-      if (isNode && isFile) {
-        const { readFile } = await import("node:fs/promises");
-        source = await readFile(source);
+      const source = (await wasm) ?? new URL("./tacit_core_bg.wasm", import.meta.url);
+      if (typeof Response !== "undefined" && source instanceof Response && !source.ok) {
+        throw new Error(`${source.url || "the response"} answered HTTP ${source.status} ${source.statusText}`.trim());
       }
       await core.default({ module_or_path: source });
       ready = true;

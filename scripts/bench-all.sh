@@ -14,8 +14,12 @@ cargo run --quiet --release --example bench_proof
 printf '\n==== the WebAssembly module\n'
 bash scripts/build-pkg.sh
 node scripts/bench-wasm.mjs
+printf '\n==== wasm against native, side by side: solves, a sweep, a sweep point against its evaluations\n'
+node scripts/bench-ratios.mjs
 printf '\n==== the offline page\n'
 node scripts/build-page.mjs
 node scripts/bench-page.mjs
+printf '\n==== the page: size, first result painted against the wasm alone\n'
+node scripts/bench-first-paint.mjs
 printf '\n==== bracketing methods on the published test sets\n'
 cargo run --quiet --release --example bench_methods

@@ -22,7 +22,7 @@ import { tmpdir } from 'node:os';
 import { spawnSync } from 'node:child_process';
 import { dirname, join, resolve, relative } from 'node:path';
 import { gzipSync } from 'node:zlib';
-import { fileURLToPath } from 'node:url';
+import { fileURLToPath, pathToFileURL } from 'node:url';
 
 const root = resolve(dirname(fileURLToPath(import.meta.url)), '..');
 const args = process.argv.slice(2);
@@ -225,7 +225,7 @@ const guardScript = (text) => text.replace(/<\/(script)/gi, '<\\/$1').replace(/<
 // block: 7 bits per character, which costs 8/7 of the bytes where base64 costs 4/3. The
 // values the HTML parser would alter or that could end the element (NUL, CR and "<") are
 // written as one character above U+00FF that carries their index and the next 7 bits.
-// www/wasm-bytes.js decodes it.
+// decode7 in www/wasm-bytes.js decodes it.
 const FORBIDDEN = [0x00, 0x0d, 0x3c];
 function encode7(bytes) {
   const groups = [];
@@ -308,12 +308,17 @@ const cssSource = readFileSync(join(root, 'www/style.css'), 'utf8');
 const css = esbuild ? esbuild.transformSync(cssSource, { loader: 'css', minify: true, charset: 'utf8' }).code : cssSource;
 const template = readFileSync(join(root, 'www/index.html'), 'utf8');
 
-// The data script sets two globals read by app.js; it is a classic script so it runs first.
+// The data script sets two globals read by app.js, and starts inflating and compiling the
+// wasm (startWasm of www/wasm-bytes.js, whose text it carries) while the module script below
+// is parsed and run. It is a classic script so it runs first; a failure here is left for the
+// page's module to meet and report.
+const wasmLoader = await import(pathToFileURL(join(root, 'www/wasm-bytes.js')).href);
 const dataJs =
   `globalThis.__TACIT_VERSION = ${JSON.stringify(version)};\n` +
-  `globalThis.__TACIT_BUILT = ${JSON.stringify(new Date().toISOString().slice(0, 10))};\n`;
+  `globalThis.__TACIT_BUILT = ${JSON.stringify(new Date().toISOString().slice(0, 10))};\n` +
+  `(() => {\n${wasmLoader.decode7}\n${wasmLoader.startWasm}\ntry { globalThis.__tacitWasm = startWasm(); } catch { /* reported by the page */ }\n})();\n`;
 const pageScript = guardScript(pageJs);
-const dataScript = guardScript(dataJs);
+const dataScript = guardScript(esbuild ? esbuild.transformSync(dataJs, { minify: true, target: 'es2022', charset: 'utf8', legalComments: 'none' }).code : dataJs);
 
 const styleText = `\n${css}`;
 const csp = [

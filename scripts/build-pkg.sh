@@ -1,8 +1,10 @@
 #!/usr/bin/env bash
 # Builds the ES-module package into dist/pkg/:
-#   tacit.js, tacit.d.ts        the public wrapper (from js/)
+#   tacit.js, tacit.d.ts        the public wrapper (from js/): the browser entry, no Node import
+#   tacit-node.js               the Node entry: tacit.js with an init that reads files
 #   tacit_core.js, .d.ts, _bg.wasm   the wasm-bindgen output it wraps
-#   package.json
+#   tacit_core_bg.wasm.d.ts     types of the wasm subpath (a bundler's URL of the file)
+#   README.md, LICENSE-MIT, LICENSE-APACHE, package.json
 # Runs scripts/setup.sh first unless TACIT_SETUP_DONE=1.
 # TACIT_NO_WASM_OPT=1 skips the size optimisation by wasm-opt (npm binaryen).
 set -euo pipefail
@@ -50,9 +52,14 @@ else
   say "skipping wasm-opt"
 fi
 
-cp js/tacit.d.ts "$OUT/"
+cp js/tacit.d.ts js/tacit-node.js js/README.md LICENSE-MIT LICENSE-APACHE "$OUT/"
 sed "s/__TACIT_VERSION__/$VERSION/" js/tacit.js >"$OUT/tacit.js"
+# wasm-bindgen's tacit_core_bg.wasm.d.ts types the raw exports of the instance, which only its
+# own glue sees; an importer of the subpath gets what a bundler makes of a file: its URL.
+cp js/tacit_core_bg.wasm.d.ts "$OUT/tacit_core_bg.wasm.d.ts"
 
+# Conditional exports: browsers and bundlers get tacit.js, Node gets tacit-node.js ("browser"
+# comes first for tools that set both conditions). Both have the same types.
 cat >"$OUT/package.json" <<EOF
 {
   "name": "tacit",
@@ -60,20 +67,34 @@ cat >"$OUT/package.json" <<EOF
   "description": "Offline solver for implicit design equations (WebAssembly)",
   "license": "MIT OR Apache-2.0",
   "type": "module",
-  "main": "./tacit.js",
+  "main": "./tacit-node.js",
   "module": "./tacit.js",
+  "browser": "./tacit.js",
   "types": "./tacit.d.ts",
   "exports": {
-    ".": { "types": "./tacit.d.ts", "default": "./tacit.js" },
-    "./tacit_core_bg.wasm": "./tacit_core_bg.wasm"
+    ".": {
+      "types": "./tacit.d.ts",
+      "browser": "./tacit.js",
+      "node": "./tacit-node.js",
+      "default": "./tacit.js"
+    },
+    "./tacit_core_bg.wasm": {
+      "types": "./tacit_core_bg.wasm.d.ts",
+      "default": "./tacit_core_bg.wasm"
+    },
+    "./package.json": "./package.json"
   },
   "files": [
     "tacit.js",
+    "tacit-node.js",
     "tacit.d.ts",
     "tacit_core.js",
     "tacit_core.d.ts",
     "tacit_core_bg.wasm",
-    "tacit_core_bg.wasm.d.ts"
+    "tacit_core_bg.wasm.d.ts",
+    "README.md",
+    "LICENSE-MIT",
+    "LICENSE-APACHE"
   ],
   "sideEffects": false
 }

@@ -4,7 +4,11 @@
 #   2. the same tests in headless Chromium through chromedriver (Debian's chromium and
 #      chromium-driver, whose major versions must match);
 #   3. node --test tests/js/ against the built package dist/pkg (built first unless
-#      TACIT_PKG_BUILT=1 says it is fresh).
+#      TACIT_PKG_BUILT=1 says it is fresh);
+#   4. node --test tests/package/: the package packed with npm pack, imported by name from
+#      Node, bundled by esbuild, built by Vite, used in a module worker and served
+#      unbundled, each opened in headless Chromium (skipped with TACIT_SKIP_BROWSER=1,
+#      but for the Node cases).
 # Runs scripts/setup.sh first unless TACIT_SETUP_DONE=1. TACIT_SKIP_BROWSER=1 skips step 2.
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -56,3 +60,10 @@ if [ "${TACIT_PKG_BUILT:-}" != 1 ]; then
 fi
 say "node --test tests/js/ (the package as an embedding tool uses it)"
 node --test tests/js/
+if [ "${TACIT_SKIP_BROWSER:-}" != 1 ]; then
+  say "node --test tests/package/ (Node by name, esbuild, Vite, a module worker, a static server)"
+  node --test tests/package/
+else
+  say "node --test tests/package/node.test.mjs (the browser set-ups skipped)"
+  node --test tests/package/node.test.mjs
+fi

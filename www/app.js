@@ -11,7 +11,7 @@ import { app, probe, hooks, notify, writeUrl, edited, currentTemplate, currentVa
 import { normalizeTemplate, buildCatalogueNav } from './catalogue.js';
 import { defaultState } from './state.js';
 import { loadSaved, exportText, loadExternal } from './storage.js';
-import { wasmBytes } from './wasm-bytes.js';
+import { wasmBytes, wasmModule } from './wasm-bytes.js';
 import { solveBuilt } from './solver.js';
 import { buildRequest } from './request.js';
 import { renderSetup, renderVarsTable, renderStart, showEquation } from './setup.js';
@@ -190,7 +190,7 @@ async function boot() {
     probe.marks.start = performance.now();
     app.wasm = await wasmBytes();
     probe.marks.inflated = performance.now();
-    await init(app.wasm.slice());
+    await init(wasmModule());
     probe.marks.instantiated = performance.now();
   } catch (e) {
     byId('calc-title').textContent = 'The solver could not start';
