@@ -1345,6 +1345,11 @@ impl UncertaintyRun {
                 mean: c.from_si(m.mean),
                 standard: c.delta_from_si(m.standard),
                 interval: (c.from_si(m.interval.0), c.from_si(m.interval.1)),
+                histogram: crate::uncertainty::Histogram {
+                    lo: c.from_si(m.histogram.lo),
+                    hi: c.from_si(m.histogram.hi),
+                    ..m.histogram.clone()
+                },
                 ..m
             }
         });
@@ -1381,6 +1386,13 @@ impl UncertaintyRun {
                 standard: m.standard,
                 seed: self.seed,
                 evaluations: m.evaluations,
+                histogram: report::HistogramReport {
+                    lo: m.histogram.lo,
+                    hi: m.histogram.hi,
+                    counts: m.histogram.counts.clone(),
+                    below: m.histogram.below,
+                    above: m.histogram.above,
+                },
             }),
             validation: validation.map(|v| report::ValidationReport {
                 agrees: v.agrees,
