@@ -12,6 +12,11 @@
  */
 export type ErrorCode =
   | "aborted"
+  | "bad-own-template"
+  | "bad-seed"
+  | "needs-one-equation"
+  | "no-uncertainties"
+  | "not-converged"
   | "ambiguous-unit"
   | "bad-bounds"
   | "bad-budget"
@@ -332,6 +337,10 @@ export interface SolveResult extends SolveOutcome {
   definitions: Record<string, number>;
   sensitivities: Sensitivity[];
   sensitivityEvaluations: number;
+  /** Forward-mode derivative runs spent on the sensitivities (no evaluations of f). */
+  sensitivityRuns: number;
+  /** Per unknown, when the knowns carry uncertainties. */
+  uncertainty: Record<string, UncertaintyResult>;
   /** The blocks the set was split into, in the order solved. */
   blocks: BlockReport[];
   /** A template's branch label of the answer, else null. */
@@ -559,6 +568,11 @@ export interface FindRootsResult {
   spacing: number;
   /** What the scan cannot see (roots closer together than the spacing, and so on). */
   limits: string;
+  /** Whether the roots were proven (`regions` then covers the range). */
+  proven: boolean;
+  regions: ProvenRegion[];
+  /** With proven: what the proof cost. */
+  proof: null | { regionsExamined: number; narrowingSlopes: number; pointEnclosures: number; pointValues: number };
 }
 
 /** The sweep of one known of a compiled problem. */
@@ -652,7 +666,114 @@ export type ProblemSpec =
       units?: Readonly<Record<string, string>>;
       unknown?: string;
       unknowns?: ReadonlyArray<string | UnknownSpec>;
+      /** Standard uncertainties of knowns: a number in the known's unit, or {percent} of its value. */
+      uncertainties?: Readonly<Record<string, UncertaintyInput>>;
     };
+
+/** A known's standard uncertainty: a number in the known's unit, or an object. */
+export type UncertaintyInput =
+  | number
+  | { standard: number; distribution?: "gaussian" | "rectangular" }
+  | { percent: number; distribution?: "gaussian" | "rectangular" };
+
+export interface UncertaintyOptions {
+  /** Monte Carlo trials (default 100 000; 0 for the law of propagation alone). */
+  trials?: number;
+  seed?: number;
+  /** k of the expanded uncertainty (default 2). */
+  coverageFactor?: number;
+}
+
+/** The uncertainty of the answer, every value in the unknown's unit. */
+export interface UncertaintyResult {
+  unit: string | null;
+  value: number;
+  /** Combined standard uncertainty (JCGM 100:2008 eq. 10). */
+  standard: number;
+  /** coverageFactor × standard. */
+  expanded: number;
+  coverageFactor: number;
+  contributions: Array<{
+    input: string;
+    standard: number;
+    inputUnit: string | null;
+    distribution: "gaussian" | "rectangular";
+    sensitivity: number;
+    contribution: number;
+  }>;
+  /** JCGM 101:2008; null with trials 0 or before the trials are done. */
+  monteCarlo: null | {
+    trials: number;
+    /** Trials in which no root was found. */
+    failed: number;
+    /** The 95 % probabilistically symmetric coverage interval. */
+    interval: NumberPair;
+    mean: number;
+    standard: number;
+    seed: number;
+    evaluations: number;
+    /** Values in 40 equal bins from lo to hi (the 0.5 % and 99.5 % quantiles). */
+    histogram: { lo: number; hi: number; counts: number[]; below: number; above: number };
+  };
+  /** JCGM 101:2008 §8: whether the Monte Carlo result validates the law of propagation. */
+  validation: null | {
+    agrees: boolean;
+    tolerance: number;
+    gumInterval: NumberPair;
+    dLow: number;
+    dHigh: number;
+    message: string;
+  };
+}
+
+/** How the Monte Carlo trials of `Problem.uncertainty` run. */
+export interface UncertaintyControl {
+  signal?: AbortSignal;
+  onProgress?: (progress: { done: number; trials: number }) => void;
+  /** Trials per chunk (default: sized to about 12 ms a chunk). */
+  chunk?: number;
+}
+
+/** One region of a proven scan, covering part of the range. */
+export interface ProvenRegion {
+  kind: "unique" | "none" | "undecided";
+  lo: number;
+  hi: number;
+  /** With "unique": the root, its enclosure and residual. */
+  root?: number | null;
+  enclosure?: NumberPair | null;
+  residual?: number | null;
+  label?: string | null;
+  /** With "undecided": why (a code) and in words. */
+  why?: string | null;
+  explanation?: string | null;
+}
+
+/** A template of one's own (README, "Your own templates"). */
+export interface OwnTemplate {
+  id: string;
+  title: string;
+  description?: string;
+  equations: string;
+  variables: Array<{
+    name: string;
+    meaning?: string;
+    unit?: string;
+    value?: number;
+    bounds?: [number | null, number | null];
+    guesses?: NumberPair;
+  }>;
+  unknown?: string;
+  validity?: string;
+  source?: string;
+}
+
+/** Reads and checks the text of an own-template file; errors name the bad field. */
+export function readOwnTemplates(text: string): OwnTemplate[];
+/** Checks one own template; gives it back as read. */
+export function checkOwnTemplate(template: OwnTemplate): OwnTemplate;
+/** Writes own templates as the text of an exchange file. */
+export function writeOwnTemplates(templates: ReadonlyArray<OwnTemplate>): string;
 
 /** How to solve a compiled problem; all optional. */
 export interface SolveOptions {
@@ -662,12 +783,18 @@ export interface SolveOptions {
   guesses?: NumberPair;
   history?: boolean;
   sensitivities?: boolean;
+  /** How the uncertainty is computed when the knowns carry uncertainties. */
+  uncertainty?: UncertaintyOptions;
 }
 
 export interface RootsOptions {
-  /** Uniform samples across the range (default 400, at most 1 000 000). */
+  /** Uniform samples across the range (default 400, at most 1 000 000); not with proven. */
   samples?: number;
   tolerances?: Tolerances;
+  /** Prove every root: regions unique / none / undecided covering the range. */
+  proven?: boolean;
+  /** With proven: the most regions examined. */
+  maxRegions?: number;
 }
 
 /** f sampled for a plot: `x` in `unit`, `f` the residual (NaN where undefined). */
@@ -708,6 +835,8 @@ export class Problem {
   sensitivities(opts?: SolveOptions): SensitivitiesResult;
   /** A sweep in chunks, yielding to the event loop between them. */
   sweep(spec: SweepSpec, control?: SweepControl): Promise<SweepResult>;
+  /** The uncertainty of the answer, the Monte Carlo trials in chunks. */
+  uncertainty(opts?: SolveOptions, control?: UncertaintyControl): Promise<UncertaintyResult>;
   /** Releases the compiled problem now (optional). */
   free(): void;
 }

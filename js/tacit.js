@@ -269,10 +269,12 @@ function readControl(control) {
   return { signal, onProgress, chunk };
 }
 
-function abortError(signal, partial) {
+function abortError(signal, partial, what = "sweep") {
   const err = new TacitError(
     "aborted",
-    `the sweep was stopped after ${partial === null ? 0 : partial.done} of its points; the points done are in error.partial`,
+    what === "sweep"
+      ? `the sweep was stopped after ${partial === null ? 0 : partial.done} of its points; the points done are in error.partial`
+      : "the Monte Carlo trials were stopped; the law of propagation's result is in error.partial",
     undefined,
     signal.reason === undefined ? undefined : { cause: signal.reason },
   );
@@ -395,6 +397,49 @@ export class Problem {
     }
   }
 
+  /**
+   * The uncertainty of the answer from the knowns' `uncertainties` (given in the spec):
+   * the law of propagation at once, then the Monte Carlo trials in chunks with the event
+   * loop let run between them. opts: SolveOptions with `uncertainty: {trials, seed,
+   * coverageFactor}`; control: {signal, onProgress, chunk}. An aborted signal rejects
+   * with a TacitError of code "aborted" whose `partial` holds the law of propagation's
+   * result (without the Monte Carlo part).
+   */
+  async uncertainty(opts = {}, control) {
+    const { signal, onProgress, chunk } = readControl(control);
+    const h = this.#handle();
+    if (signal?.aborted) throw abortError(signal, null, "uncertainty");
+    const run = guarded(() => h.startUncertainty(opts));
+    let size = chunk ?? 200;
+    try {
+      for (;;) {
+        if (guarded(() => run.finished)) return guarded(() => run.report());
+        const started = Date.now();
+        const done = guarded(() => run.advance(size));
+        if (onProgress !== undefined) {
+          try {
+            onProgress({ done, trials: guarded(() => run.trials) });
+          } catch (e) {
+            throw callbackThrew(e, "onProgress");
+          }
+        }
+        if (chunk === undefined) {
+          const took = Math.max(Date.now() - started, 0.5);
+          size = Math.min(MAX_SWEEP_CHUNK, Math.max(1, Math.round((size * SWEEP_SLICE_MS) / took)));
+        }
+        if (guarded(() => run.finished)) return guarded(() => run.report());
+        await yieldToEventLoop();
+        if (signal?.aborted) throw abortError(signal, guarded(() => run.report()), "uncertainty");
+      }
+    } finally {
+      try {
+        run.free();
+      } catch {
+        // An instance that stopped on an internal error cannot free; nothing is lost.
+      }
+    }
+  }
+
   /** Releases the compiled problem now (optional; a sweep under way keeps its own). */
   free() {
     if (this.#h !== null) {
@@ -441,6 +486,25 @@ let catalogueValue = null;
 export function catalogue() {
   if (catalogueValue === null) catalogueValue = guarded(() => core.catalogue());
   return structuredClone(catalogueValue);
+}
+
+/**
+ * Reads and checks a file of own templates (its text, format "tacit-own-templates");
+ * the templates. A bad field is a TacitError naming it (templates[2].variables[0].unit).
+ */
+export function readOwnTemplates(text) {
+  if (typeof text !== "string") throw new TacitError("bad-type", `the own-template file must be text, got ${describe(text)}`);
+  return guarded(() => core.readOwnTemplates(text));
+}
+
+/** Checks one own template; gives it back as read, or throws a TacitError naming the bad field. */
+export function checkOwnTemplate(template) {
+  return guarded(() => core.checkOwnTemplate(template));
+}
+
+/** Writes own templates as the text of an exchange file (after checking them). */
+export function writeOwnTemplates(templates) {
+  return guarded(() => core.writeOwnTemplates({ templates }));
 }
 
 /** Every dimension with its units, SI unit first. */

@@ -9,6 +9,8 @@ printf '\n==== evaluation economy of the open (two-guess) default against the pl
 cargo run --quiet --release --example bench_open
 printf '\n==== compiled equations against hand-written Rust and meval\n'
 cargo run --quiet --release --example bench_eval
+printf '\n==== the per-point cost of a sweep against its evaluations\n'
+cargo run --quiet --release --example bench_sweep
 printf '\n==== proven roots against the sampling scan; Monte Carlo throughput\n'
 cargo run --quiet --release --example bench_proof
 printf '\n==== the WebAssembly module\n'

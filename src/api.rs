@@ -35,6 +35,7 @@ use crate::problem::{
 };
 use crate::roots_in_range::{self, ScanOptions};
 use crate::stepper::Stepper;
+use crate::templates::own::{self, OwnTemplate};
 use crate::tolerances::Bounds;
 
 /// Longest request accepted as JSON text, in bytes.
@@ -635,11 +636,83 @@ impl ProblemSession {
         })
     }
 
+    /// Starts the uncertainty of the answer (the knowns' `uncertainties`), its Monte
+    /// Carlo trials run in chunks by [`UncertaintySession::advance`].
+    pub fn start_uncertainty(&self, opts: &SolveOptions) -> Result<UncertaintySession, InputError> {
+        Ok(UncertaintySession {
+            run: self.problem.uncertainty(opts)?,
+        })
+    }
+
     pub fn start_sweep(&self, spec: &SweepSpec) -> Result<SweepSession, InputError> {
         Ok(SweepSession {
             sweep: Sweep::shared(Rc::clone(&self.problem), spec)?,
         })
     }
+}
+
+/// The uncertainty of an answer with its Monte Carlo trials run in chunks (the JS
+/// `Problem.uncertainty`).
+pub struct UncertaintySession {
+    run: crate::problem::UncertaintyRun,
+}
+
+impl UncertaintySession {
+    /// Runs up to `chunk` more trials (a JavaScript number, checked); the trials done.
+    pub fn advance(&mut self, chunk: f64) -> Result<usize, InputError> {
+        let max = crate::uncertainty::MAX_TRIALS;
+        if !(chunk.fract() == 0.0 && (1.0..=max as f64).contains(&chunk)) {
+            return Err(InputError::new(
+                "bad-request",
+                format!("the chunk must be a whole number from 1 to {max}, got {chunk}"),
+            ));
+        }
+        Ok(self.run.advance(chunk as usize))
+    }
+
+    pub fn done(&self) -> usize {
+        self.run.done()
+    }
+
+    pub fn trials(&self) -> usize {
+        self.run.trials()
+    }
+
+    pub fn is_done(&self) -> bool {
+        self.run.is_done()
+    }
+
+    /// The law of propagation at once; the Monte Carlo result once every trial is done.
+    pub fn report(&self) -> crate::problem::report::UncertaintyReport {
+        self.run.report()
+    }
+}
+
+// ---------------------------------------------------------------------------------------
+// Templates of one's own
+
+/// Reads and checks an exchange file of own templates (its text).
+pub fn read_own_templates(text: &str) -> Result<Vec<OwnTemplate>, InputError> {
+    own::read_file(text)
+}
+
+/// Checks one own template (as sent) and gives it back as read.
+pub fn check_own_template(t: &OwnTemplate) -> Result<OwnTemplate, InputError> {
+    t.check("template")?;
+    Ok(t.clone())
+}
+
+/// Writes own templates as an exchange file, after checking them.
+pub fn write_own_templates(list: &OwnTemplateList) -> Result<String, InputError> {
+    own::write_file(list.templates.as_deref().unwrap_or_default())
+}
+
+/// `writeOwnTemplates`: the templates to write.
+#[derive(Debug, Clone, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct OwnTemplateList {
+    #[serde(default, deserialize_with = "bounded::opt_vec")]
+    pub templates: Option<Vec<OwnTemplate>>,
 }
 
 /// Largest chunk of a sweep advanced by one call.

@@ -508,6 +508,16 @@ impl ProblemHandle {
         call(options, "options", |o| self.0.sensitivities(o))
     }
 
+    /// Starts the uncertainty of the answer; its Monte Carlo trials run in chunks.
+    #[wasm_bindgen(js_name = startUncertainty)]
+    pub fn start_uncertainty(&self, options: JsValue) -> Result<UncertaintyHandle, JsValue> {
+        let options: crate::problem::SolveOptions = read(options, "options")?;
+        self.0
+            .start_uncertainty(&options)
+            .map(UncertaintyHandle)
+            .map_err(to_js)
+    }
+
     #[wasm_bindgen(js_name = startSweep)]
     pub fn start_sweep(&self, spec: JsValue) -> Result<SweepHandle, JsValue> {
         let spec: crate::problem::SweepSpec = read(spec, "sweep")?;
@@ -540,6 +550,75 @@ impl SweepHandle {
     pub fn finished(&self) -> bool {
         self.0.is_done()
     }
+}
+
+/// The uncertainty of an answer, its Monte Carlo trials run in chunks.
+#[wasm_bindgen(js_name = UncertaintyHandle)]
+pub struct UncertaintyHandle(api::UncertaintySession);
+
+#[wasm_bindgen(js_class = UncertaintyHandle)]
+impl UncertaintyHandle {
+    /// Runs up to `chunk` more trials; the trials done.
+    pub fn advance(&mut self, chunk: JsValue) -> Result<usize, JsValue> {
+        let chunk = number_arg(&chunk, "chunk")?;
+        self.0.advance(chunk).map_err(to_js)
+    }
+
+    #[wasm_bindgen(getter)]
+    pub fn done(&self) -> usize {
+        self.0.done()
+    }
+
+    #[wasm_bindgen(getter)]
+    pub fn trials(&self) -> usize {
+        self.0.trials()
+    }
+
+    #[wasm_bindgen(getter)]
+    pub fn finished(&self) -> bool {
+        self.0.is_done()
+    }
+
+    pub fn report(&self) -> Result<JsValue, JsValue> {
+        write(&self.0.report())
+    }
+}
+
+// ---------------------------------------------------------------------------------------
+// Templates of one's own
+
+/// Reads and checks an exchange file of own templates (its text); the templates.
+#[wasm_bindgen(js_name = readOwnTemplates)]
+pub fn read_own_templates(text: JsValue) -> Result<JsValue, JsValue> {
+    // Measured before it is copied out of JavaScript (UTF-16 units; at most 3 bytes
+    // of UTF-8 each).
+    if let Some(s) = text.dyn_ref::<js_sys::JsString>() {
+        let units = s.length() as usize;
+        if units > api::MAX_REQUEST_BYTES {
+            return Err(to_js(InputError::new(
+                "bad-request",
+                format!(
+                    "the own-template file has {units} characters; the limit is {}",
+                    api::MAX_REQUEST_BYTES
+                ),
+            )));
+        }
+    }
+    let text = string_arg(&text, "the own-template file")?;
+    write(&api::read_own_templates(&text).map_err(to_js)?)
+}
+
+/// Checks one own template; gives it back as read.
+#[wasm_bindgen(js_name = checkOwnTemplate)]
+pub fn check_own_template(template: JsValue) -> Result<JsValue, JsValue> {
+    call(template, "template", api::check_own_template)
+}
+
+/// Writes own templates ({templates}) as an exchange file's text.
+#[wasm_bindgen(js_name = writeOwnTemplates)]
+pub fn write_own_templates(request: JsValue) -> Result<String, JsValue> {
+    let list: api::OwnTemplateList = read(request, "request")?;
+    api::write_own_templates(&list).map_err(to_js)
 }
 
 // ---------------------------------------------------------------------------------------

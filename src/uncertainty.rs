@@ -189,6 +189,69 @@ pub struct MonteCarlo {
     pub interval: (f64, f64),
     /// Evaluations of F over all trials.
     pub evaluations: usize,
+    /// The values found, counted in [`HISTOGRAM_BINS`] equal bins from the 0.5 % to the
+    /// 99.5 % quantile (values beyond either end counted apart), for a plot.
+    pub histogram: Histogram,
+}
+
+/// Bins of the Monte Carlo histogram.
+pub const HISTOGRAM_BINS: usize = 40;
+
+/// Counts of values in equal bins from `lo` to `hi`; `below` and `above` count the
+/// values outside. Empty (`counts` all zero, `lo == hi == NaN`) when no value was found.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Histogram {
+    pub lo: f64,
+    pub hi: f64,
+    pub counts: Vec<usize>,
+    pub below: usize,
+    pub above: usize,
+}
+
+impl Histogram {
+    /// The histogram of `sorted` (ascending, finite).
+    pub fn of_sorted(sorted: &[f64]) -> Histogram {
+        let mut h = Histogram {
+            lo: f64::NAN,
+            hi: f64::NAN,
+            counts: vec![0; HISTOGRAM_BINS],
+            below: 0,
+            above: 0,
+        };
+        let n = sorted.len();
+        if n == 0 {
+            return h;
+        }
+        let at = |p: f64| sorted[((p * (n - 1) as f64).round() as usize).min(n - 1)];
+        let (lo, hi) = (at(0.005), at(0.995));
+        h.lo = lo;
+        h.hi = hi;
+        if hi <= lo {
+            // Every value (but the outer 1 %) is the same: one bin holds them.
+            for &v in sorted {
+                if v < lo {
+                    h.below += 1;
+                } else if v > hi {
+                    h.above += 1;
+                } else {
+                    h.counts[0] += 1;
+                }
+            }
+            return h;
+        }
+        let width = (hi - lo) / HISTOGRAM_BINS as f64;
+        for &v in sorted {
+            if v < lo {
+                h.below += 1;
+            } else if v > hi {
+                h.above += 1;
+            } else {
+                let i = (((v - lo) / width) as usize).min(HISTOGRAM_BINS - 1);
+                h.counts[i] += 1;
+            }
+        }
+        h
+    }
 }
 
 /// The comparison of JCGM 101 §8.
@@ -559,6 +622,7 @@ impl<M: ImplicitModel> MonteCarloRun<M> {
             standard: variance.sqrt(),
             interval: coverage_interval(&values, 0.95),
             evaluations: self.evaluations,
+            histogram: Histogram::of_sorted(&values),
         }
     }
 }

@@ -305,3 +305,34 @@ fn bad_uncertainties_are_refused_with_the_place() {
     let e = p.uncertainty(&SolveOptions::default()).err().unwrap();
     assert_eq!(e.code, "no-uncertainties");
 }
+
+#[test]
+fn the_monte_carlo_histogram_counts_every_value_in_the_unknowns_unit() {
+    // JCGM 101:2008 §9.2.2's additive model (four Gaussian inputs, u = 1 each): Y is
+    // Gaussian with standard deviation 2. The histogram spans the 0.5 % to 99.5 %
+    // quantiles, ±2.576·2 = ±5.15 for a Gaussian (standard normal quantile, common
+    // practice, no source), and every trial is counted once; all in mm.
+    let p = problem(
+        r#"{"equations": "Y = X1 + X2 + X3 + X4", "knowns": {"X1": 0, "X2": 0, "X3": 0, "X4": 0},
+            "units": {"Y": "mm", "X1": "mm", "X2": "mm", "X3": "mm", "X4": "mm"}, "unknown": "Y",
+            "uncertainties": {"X1": 1, "X2": 1, "X3": 1, "X4": 1}}"#,
+    );
+    let r = p
+        .solve(&options(r#"{"uncertainty": {"trials": 50000, "seed": 7}}"#))
+        .unwrap();
+    let mc = r.uncertainty["Y"]
+        .monte_carlo
+        .as_ref()
+        .expect("a Monte Carlo result");
+    let h = &mc.histogram;
+    assert_eq!(h.counts.len(), 40);
+    assert_eq!(
+        h.counts.iter().sum::<usize>() + h.below + h.above,
+        mc.trials - mc.failed
+    );
+    close(h.lo, -5.15, 0.05, "0.5 % quantile (mm)");
+    close(h.hi, 5.15, 0.05, "99.5 % quantile (mm)");
+    // Symmetric and peaked in the middle.
+    let mid = h.counts[19] + h.counts[20];
+    assert!(mid > 4 * (h.counts[0] + h.counts[39]), "{:?}", h.counts);
+}

@@ -1075,6 +1075,24 @@ pub struct Sweep<'p> {
     report: SweepReport,
     prev: Option<f64>,
     before: Option<f64>,
+    /// What is made once for every point ([`Sweep::advance`]).
+    fast: Fast,
+    /// The unknown's conversion and bounds in SI.
+    conversion: Conversion,
+    bounds: Bounds,
+}
+
+/// The part of a point's solve made once per sweep: the residual compiled with the
+/// swept known kept variable. Each point then gives the same root, status and
+/// evaluations as [`Problem::solve_at`], which rebuilds everything (and which a point
+/// still takes where the shortcut does not apply).
+enum Fast {
+    None,
+    /// A template: its compiled request solved again at each value.
+    Template(Box<templates::PointSolver>),
+    /// An equation set: the residual of its one unknown in SI, the swept known live,
+    /// and the unknown's bounds in SI.
+    Equations(Box<crate::equations::Residual>, Bounds),
 }
 
 /// The problem a sweep runs on: borrowed, or shared with a handle that outlives the
@@ -1221,6 +1239,25 @@ impl<'p> Sweep<'p> {
             }
         };
         let (unit, input) = (problem.unit(), spec.input.clone());
+        let fast = match &problem.kind {
+            Kind::Template(t) => t
+                .point_solver(&spec.input)
+                .map_or(Fast::None, |p| Fast::Template(Box::new(p))),
+            Kind::Equations(e) => {
+                // As `solve_at` builds it: every known in SI, the swept one live.
+                let knowns: Vec<(String, f64)> = e
+                    .knowns
+                    .iter()
+                    .map(|(n, v)| (n.clone(), e.units.to_si(n, *v)))
+                    .collect();
+                let u = &e.unknowns[0];
+                match e.set.residual(&knowns, &u.name, &[spec.input.as_str()]) {
+                    Ok(r) => Fast::Equations(Box::new(r), e.units_bounds(&u.name, u.bounds)),
+                    Err(_) => Fast::None,
+                }
+            }
+        };
+        let bounds = problem.bounds_si();
         Ok(Sweep {
             problem: held,
             input,
@@ -1238,6 +1275,9 @@ impl<'p> Sweep<'p> {
             first,
             prev: None,
             before: None,
+            fast,
+            conversion: c,
+            bounds,
         })
     }
 
@@ -1247,9 +1287,9 @@ impl<'p> Sweep<'p> {
 
     /// Solves up to `chunk` more points; the report so far.
     pub fn advance(&mut self, chunk: usize) -> Result<&SweepReport, InputError> {
-        let c = self.problem.conversion()?;
+        let c = self.conversion;
         let end = (self.report.done + chunk.max(1)).min(self.values.len());
-        let bounds = self.problem.bounds_si();
+        let bounds = self.bounds;
         for i in self.report.done..end {
             let v = self.values[i];
             let v_si = self.input_conv.to_si(v);
@@ -1257,9 +1297,35 @@ impl<'p> Sweep<'p> {
                 Some(p) => continuation_guesses(p, self.before, bounds).unwrap_or(self.first),
                 None => self.first,
             };
-            let (root, status, evals) =
-                self.problem
-                    .solve_at(&self.input, v_si, (a, b), &self.options)?;
+            let quick = match &mut self.fast {
+                Fast::None => None,
+                Fast::Template(p) => {
+                    // As solve_at hands them to the template: the value through the
+                    // input's unit, the guesses through the result unit.
+                    let ic = self.input_conv;
+                    let si = ic.to_si(ic.from_si(v_si));
+                    p.solve(
+                        si,
+                        (c.to_si(c.from_si(a)), c.to_si(c.from_si(b))),
+                        &self.options,
+                    )
+                }
+                Fast::Equations(r, bounds) => {
+                    r.set_knowns(&[v_si]);
+                    Some(solve_equation_at(
+                        |x| r.value(x),
+                        *bounds,
+                        (a, b),
+                        &self.options,
+                    )?)
+                }
+            };
+            let (root, status, evals) = match quick {
+                Some(found) => found,
+                None => self
+                    .problem
+                    .solve_at(&self.input, v_si, (a, b), &self.options)?,
+            };
             if status.is_converged() {
                 self.before = self.prev;
                 self.prev = Some(root);
@@ -1345,6 +1411,11 @@ impl UncertaintyRun {
                 mean: c.from_si(m.mean),
                 standard: c.delta_from_si(m.standard),
                 interval: (c.from_si(m.interval.0), c.from_si(m.interval.1)),
+                histogram: crate::uncertainty::Histogram {
+                    lo: c.from_si(m.histogram.lo),
+                    hi: c.from_si(m.histogram.hi),
+                    ..m.histogram.clone()
+                },
                 ..m
             }
         });
@@ -1381,6 +1452,13 @@ impl UncertaintyRun {
                 standard: m.standard,
                 seed: self.seed,
                 evaluations: m.evaluations,
+                histogram: report::HistogramReport {
+                    lo: m.histogram.lo,
+                    hi: m.histogram.hi,
+                    counts: m.histogram.counts.clone(),
+                    below: m.histogram.below,
+                    above: m.histogram.above,
+                },
             }),
             validation: validation.map(|v| report::ValidationReport {
                 agrees: v.agrees,
@@ -1396,7 +1474,9 @@ impl UncertaintyRun {
 
 /// Two starting points for the next solve of a sweep: the previous root and a step
 /// along the trend of the last two roots (or a small relative step), kept in bounds.
-fn continuation_guesses(prev: f64, before: Option<f64>, bounds: Bounds) -> Option<(f64, f64)> {
+/// All in SI: `prev` and `before` are the last two converged roots; `None` when no
+/// second point fits in `bounds` (the sweep then starts from its first guesses).
+pub fn continuation_guesses(prev: f64, before: Option<f64>, bounds: Bounds) -> Option<(f64, f64)> {
     let trend = before
         .map(|b| prev - b)
         .filter(|d| d.is_finite() && *d != 0.0);
@@ -1475,18 +1555,29 @@ impl Problem {
                     .collect();
                 let mut f = e.set.residual_fn(&knowns, name)?;
                 let bounds = e.units_bounds(name, e.unknowns[0].bounds);
-                let opts = Options { bounds, ..*options };
-                let (a, b) = (bounds.clamp(g.0), bounds.clamp(g.1));
-                let (a, b) = if a == b {
-                    default_guesses(bounds)
-                } else {
-                    (a, b)
-                };
-                let s = crate::stepper::solve(Start::Guesses(a, b), &opts, &mut f)?;
-                Ok((s.root, s.status, s.evaluations))
+                solve_equation_at(&mut f, bounds, g, options)
             }
         }
     }
+}
+
+/// A sweep point of an equation set: `f` in SI from guesses `g` (SI) clamped into
+/// `bounds` (the bounds' default guesses where they clamp to one point).
+fn solve_equation_at(
+    mut f: impl FnMut(f64) -> f64,
+    bounds: Bounds,
+    g: (f64, f64),
+    options: &Options,
+) -> Result<(f64, Status, usize), InputError> {
+    let opts = Options { bounds, ..*options };
+    let (a, b) = (bounds.clamp(g.0), bounds.clamp(g.1));
+    let (a, b) = if a == b {
+        default_guesses(bounds)
+    } else {
+        (a, b)
+    };
+    let s = crate::stepper::solve(Start::Guesses(a, b), &opts, &mut f)?;
+    Ok((s.root, s.status, s.evaluations))
 }
 
 impl Equations {

@@ -288,6 +288,20 @@ pub struct MonteCarloReport {
     pub seed: u64,
     /// Evaluations of f of every kind over all trials.
     pub evaluations: usize,
+    /// The values found in equal bins, for a plot (x in the unknown's unit).
+    pub histogram: HistogramReport,
+}
+
+/// Counts of the Monte Carlo values in equal bins from `lo` to `hi` (the 0.5 % and
+/// 99.5 % quantiles, in the unknown's unit); `below` and `above` count those outside.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "camelCase")]
+pub struct HistogramReport {
+    pub lo: f64,
+    pub hi: f64,
+    pub counts: Vec<usize>,
+    pub below: usize,
+    pub above: usize,
 }
 
 /// JCGM 101 §8: whether the law of propagation is validated by the Monte Carlo result.

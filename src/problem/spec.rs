@@ -321,6 +321,15 @@ pub mod bounded {
         }
     }
 
+    /// A list of at most `MAX_ENTRIES` items.
+    pub fn vec<'de, D, T>(d: D) -> Result<Vec<T>, D::Error>
+    where
+        D: Deserializer<'de>,
+        T: Deserialize<'de>,
+    {
+        Wrap::<Vec<T>>::deserialize(d).map(|w| w.0)
+    }
+
     /// A list of at most `MAX_ENTRIES` items, or absent.
     pub fn opt_vec<'de, D, T>(d: D) -> Result<Option<Vec<T>>, D::Error>
     where

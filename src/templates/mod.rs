@@ -698,6 +698,90 @@ pub fn compile(req: &TemplateRequest) -> Result<Compiled, InputError> {
     })
 }
 
+/// A compiled request solved again at other values of one known, for sweeps: the
+/// same root, status and evaluations as [`compile`] then [`Compiled::solve`] of the
+/// request with that known changed and the guesses given, without parsing the
+/// equations, reading the knowns through the unit table or building the residual
+/// anew (the known stays a live value of one compiled program).
+///
+/// It answers only where the full path would return the scalar solve as it is: the
+/// solve converged (its certificate accepted by the driver), every check of the
+/// knowns, limits, conditions and guesses passed. Everything else (a failed solve,
+/// which the full path follows with its scan for a root; any error) is `None`, and
+/// the caller takes the full path for that point.
+pub struct PointSolver {
+    t: &'static Template,
+    unknown: &'static Variable,
+    /// The unknown's bounds in SI (its limits at the compiled knowns).
+    bounds: Bounds,
+    /// The known's place in `names` and `values`.
+    index: usize,
+    names: Vec<String>,
+    /// Every known in SI, the swept one as last set.
+    values: Vec<f64>,
+    residual: crate::equations::Residual,
+}
+
+impl PointSolver {
+    /// The root (SI), status and evaluations with the known at `si` (SI) and the
+    /// solve started from `guesses` (SI), or `None` (see [`PointSolver`]).
+    pub fn solve(
+        &mut self,
+        si: f64,
+        guesses: (f64, f64),
+        options: &Options,
+    ) -> Option<(f64, Status, usize)> {
+        let (t, unknown) = (self.t, self.unknown);
+        if !si.is_finite() {
+            return None;
+        }
+        self.values[self.index] = si;
+        // compile: the unknown's bounds with its limits at these knowns, the conditions.
+        let names = || -> Vec<&str> { self.names.iter().map(String::as_str).collect() };
+        let bounds = if unknown.limits.is_some() {
+            let place = format!("limits of {} in template {}", unknown.symbol, t.id);
+            let own = unknown.bounds_si().ok()?;
+            limited(own, &unknown.limits, &names(), &self.values, &place).ok()?
+        } else {
+            self.bounds
+        };
+        if !t.requires.is_empty() {
+            check_requirements(t, &unknown.symbol, &names(), &self.values).ok()?;
+        }
+        // solve_set: the options, the unknown's bounds within the solver's, the guesses.
+        options.tol.validate().ok()?;
+        options.bounds.validate().ok()?;
+        bounds.validate().ok()?;
+        let b = Bounds {
+            lo: bounds.lo.max(options.bounds.lo),
+            hi: bounds.hi.min(options.bounds.hi),
+        };
+        let (x0, x1) = guesses;
+        if b.lo > b.hi
+            || !(x0.is_finite() && x1.is_finite())
+            || !(b.contains(x0) && b.contains(x1))
+            || x0 == x1
+        {
+            return None;
+        }
+        let opts = Options {
+            bounds: b,
+            record_history: options.record_history,
+            ..*options
+        };
+        self.residual.set_knowns(&[si]);
+        let residual = &mut self.residual;
+        let sol = crate::stepper::solve(crate::methods::Start::Guesses(x0, x1), &opts, |x| {
+            residual.value(x)
+        })
+        .ok()?;
+        // Compiled::solve settles a converged solve of a template without a root scan
+        // as it is.
+        sol.certificate.as_ref()?;
+        Some((sol.root, sol.status, sol.evaluations))
+    }
+}
+
 /// The variable of `t` named `symbol`, if the template may be solved for it.
 fn the_unknown(t: &'static Template, symbol: &str) -> Result<&'static Variable, InputError> {
     let unknown = t.variable(symbol).ok_or_else(|| {
@@ -997,6 +1081,31 @@ impl Compiled {
         }
         self.set
             .residual(&self.set_knowns, &self.unknown.symbol, live)
+    }
+
+    /// A solver of this request at other values of the known `symbol`, for sweeps:
+    /// see [`PointSolver`]. `None` where its shortcut does not apply (auxiliary
+    /// unknowns, a root scan or a branch asked for, sensitivities, or a known the
+    /// equations do not use); the caller then compiles and solves each point in full.
+    pub fn point_solver(&self, symbol: &str) -> Option<PointSolver> {
+        if !self.t.auxiliary.is_empty()
+            || self.unknown.roots.is_some()
+            || self.req.branch.is_some()
+            || self.req.sensitivities
+        {
+            return None;
+        }
+        let index = self.knowns.iter().position(|(s, _)| s == symbol)?;
+        let residual = self.program(&[symbol]).ok()?;
+        Some(PointSolver {
+            t: self.t,
+            unknown: self.unknown,
+            bounds: self.bounds,
+            index,
+            names: self.names().into_iter().map(str::to_string).collect(),
+            values: self.values(),
+            residual,
+        })
     }
 
     /// The branch labels of roots at `xs` (SI, sorted), where the template names them.

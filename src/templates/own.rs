@@ -54,6 +54,7 @@ pub struct OwnTemplate {
     /// The equations in the language, `#` comments kept.
     pub equations: String,
     /// Every variable of the equations, in the order to show them.
+    #[serde(deserialize_with = "spec::bounded::vec")]
     pub variables: Vec<OwnVariable>,
     /// The variable solved for by default (the first without a value when absent).
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -90,6 +91,7 @@ pub struct OwnVariable {
 pub struct OwnTemplateFile {
     pub format: String,
     pub version: u32,
+    #[serde(deserialize_with = "spec::bounded::vec")]
     pub templates: Vec<OwnTemplate>,
 }
 
