@@ -12,8 +12,9 @@ export function fmt(x, digits = 6) {
   const a = Math.abs(x);
   let s;
   if (a >= 1e-4 && a < 1e7) {
-    s = x.toPrecision(digits);
-    if (s.includes('.') && !s.includes('e')) s = s.replace(/0+$/, '').replace(/\.$/, '');
+    // Rounded to `digits` significant digits and written out in full (toPrecision alone
+    // would write 250000 to 4 digits as 2.500e+5).
+    s = String(Number(x.toPrecision(digits)));
   } else {
     s = x.toExponential(digits - 1).replace(/\.?0+e/, 'e');
     s = s.replace('e+', '×10^').replace('e-', `×10^${MINUS}`);
@@ -46,8 +47,15 @@ export function parseNumber(text) {
   return { value: v };
 }
 
-/** A unit as people write it: kJ/(kg·K), m², s/m^(1/3). The unit's code stays as it is. */
+/** A unit as people write it: kJ/(kg·K), m², cm³/mol, µm, s/m^(1/3). The unit's code
+ *  (what the solver reads) stays as it is; this is only how it is shown. */
 export function prettyUnit(u) {
   if (!u || u === '1') return '';
-  return String(u).replace(/\*/g, '·').replace(/\^2(?![\d.])/g, '²').replace(/\^3(?![\d.])/g, '³');
+  let s = String(u);
+  // Prefix micro written as "u" (um, uA, …) and the ohm written out.
+  s = s.replace(/(^|[^A-Za-z])u(?=[A-Za-z])/g, '$1µ').replace(/([kMm]?)ohm\b/g, '$1Ω');
+  s = s.replace(/\bdeg([CF])\b/g, '°$1');
+  s = s.replace(/\^(-?\d+)(?![\d.])/g, (_, e) => superscript(e.replace('-', MINUS)));
+  return s.replace(/\*/g, '·');
 }
+

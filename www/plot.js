@@ -1,5 +1,7 @@
 // Small SVG plots built with createElementNS: axes with tidy ticks, lines, points, segments.
 
+import { fmt } from './format.js';
+
 const SVG = 'http://www.w3.org/2000/svg';
 const W = 560;
 const H = 300;
@@ -23,11 +25,9 @@ export function ticks(lo, hi, count = 5) {
   return out;
 }
 
+// Tick labels in the page's one number format (×10ⁿ for very large or small values).
 function label(v) {
-  if (v === 0) return '0';
-  const a = Math.abs(v);
-  if (a >= 1e-3 && a < 1e5) return String(Number(v.toPrecision(4))).replace('-', '\u2212');
-  return v.toExponential(1).replace('e+', 'e').replace('-', '\u2212');
+  return fmt(Number(v.toPrecision(4)), 4);
 }
 
 function extent(values) {

@@ -24,8 +24,13 @@ export function defaultState() {
     start: { kind: 'default', a: '', b: '' },
     method: 'auto',
     tol: { xRel: '', xAbs: '', fAbs: '', maxEvals: '' },
-    sweep: { input: '', from: '', to: '', n: '' },
+    sweep: { input: '', from: '', to: '', n: '', spacing: 'linear' },
     external: { label: '', stepper: '' },
+    // For the printed record: who it is for, who prepared it and who checked it.
+    record: { project: '', preparedBy: '', checkedBy: '' },
+    // True when the inputs changed after the last solve: the page then shows no answer as
+    // current, and a link made now opens without solving, saying so.
+    unsolved: false,
   };
 }
 
@@ -112,6 +117,10 @@ export function validateState(data) {
         const v = str(data.sweep[k] ?? '', 32, `sweep.${k}`, problems);
         if (v !== undefined) st.sweep[k] = v;
       }
+      if (data.sweep.spacing !== undefined) {
+        if (data.sweep.spacing === 'linear' || data.sweep.spacing === 'log') st.sweep.spacing = data.sweep.spacing;
+        else problems.push('sweep.spacing is not linear or log');
+      }
     }
   }
   if (data.external !== undefined) {
@@ -122,6 +131,19 @@ export function validateState(data) {
       const s = str(data.external.stepper ?? '', 100000, 'external.stepper', problems);
       if (s !== undefined) st.external.stepper = s;
     }
+  }
+  if (data.record !== undefined) {
+    if (!data.record || typeof data.record !== 'object') problems.push('record is not an object');
+    else {
+      for (const k of Object.keys(st.record)) {
+        const v = str(data.record[k] ?? '', 200, `record.${k}`, problems);
+        if (v !== undefined) st.record[k] = v;
+      }
+    }
+  }
+  if (data.unsolved !== undefined) {
+    if (typeof data.unsolved === 'boolean') st.unsolved = data.unsolved;
+    else problems.push('unsolved is not true or false');
   }
   return { state: st, problems };
 }
@@ -142,6 +164,8 @@ export function compactState(st) {
   if (st.method !== d.method) out.method = st.method;
   if (Object.values(st.tol).some(Boolean)) out.tol = st.tol;
   if (st.mode === 'external') out.external = st.external;
+  if (Object.values(st.record).some(Boolean)) out.record = st.record;
+  if (st.unsolved && st.mode !== 'external') out.unsolved = true;
   return out;
 }
 
@@ -175,8 +199,10 @@ export function decodeFragment(hash) {
   let text;
   try {
     text = fromBase64Url(body.slice(FRAGMENT_KEY.length));
-  } catch (e) {
-    return { error: `the link's data cannot be decoded: ${e.message}` };
+  } catch {
+    // The browser's own words ("Failed to execute 'decode' on 'TextDecoder'") mean
+    // nothing to the reader; say what probably happened.
+    return { error: 'the link was cut short or changed after it was made, so its data cannot be read (copy the whole link again from where it came from)' };
   }
   let data;
   try {

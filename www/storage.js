@@ -46,24 +46,45 @@ export function newId() {
   return `s-${Date.now().toString(36)}-${Math.random().toString(36).slice(2, 8)}`;
 }
 
+/** Reads a key; a storage that throws (blocked, or broken by an extension) reads as
+ *  `undefined`, which callers treat as "storage is not available". */
+function read(s, key) {
+  try {
+    return s.getItem(key);
+  } catch {
+    return undefined;
+  }
+}
+
+function remove(s, key) {
+  try {
+    s.removeItem(key);
+  } catch {
+    /* nothing was removed; the text stays where it was */
+  }
+}
+
+const NO_STORAGE = 'this browser does not allow storage here, so saving is off';
+
 /** Returns { items, problems }. */
 export function loadSaved() {
   const s = store();
-  if (!s) return { items: [], problems: ['this browser does not allow storage here, so saving is off'] };
-  const text = s.getItem(SAVED_KEY);
+  if (!s) return { items: [], problems: [NO_STORAGE] };
+  const text = read(s, SAVED_KEY);
+  if (text === undefined) return { items: [], problems: [NO_STORAGE] };
   if (text === null) return { items: [], problems: [] };
   let data;
   try {
     data = JSON.parse(text);
   } catch {
     const b = backup(SAVED_KEY, text);
-    s.removeItem(SAVED_KEY);
+    if (b) remove(s, SAVED_KEY);
     return { items: [], problems: [`the saved list in this browser was damaged and could not be read${b ? `; its text was kept under the storage key ${b}` : ''}`] };
   }
   const list = data && Array.isArray(data.items) ? data.items : null;
   if (!list) {
     const b = backup(SAVED_KEY, text);
-    s.removeItem(SAVED_KEY);
+    if (b) remove(s, SAVED_KEY);
     return { items: [], problems: [`the saved list in this browser has an unknown shape${b ? `; its text was kept under the storage key ${b}` : ''}`] };
   }
   const problems = [];
@@ -124,26 +145,45 @@ export function importText(text) {
 export function loadExternal() {
   const s = store();
   if (!s) return null;
-  const text = s.getItem(EXTERNAL_KEY);
-  if (text === null) return null;
+  const text = read(s, EXTERNAL_KEY);
+  if (text === null || text === undefined) return null;
   try {
     const data = JSON.parse(text);
     if (!data || typeof data.stepper !== 'string' || data.stepper.length > 100000) throw new Error('shape');
     return { stepper: data.stepper, label: typeof data.label === 'string' ? data.label.slice(0, 200) : '' };
   } catch {
     const b = backup(EXTERNAL_KEY, text);
-    s.removeItem(EXTERNAL_KEY);
+    if (b) remove(s, EXTERNAL_KEY);
     return { error: `the stored external evaluation was damaged${b ? `; its text was kept under the storage key ${b}` : ''}` };
   }
 }
 
+/** Copies the kept evaluation by hand to a backup key; returns the key, or null when
+ *  there is nothing kept (or storage refuses). */
+export function backupExternal() {
+  const s = store();
+  if (!s) return null;
+  const text = read(s, EXTERNAL_KEY);
+  return typeof text === 'string' ? backup(EXTERNAL_KEY, text) : null;
+}
+
+/** Writes the evaluation by hand; `null` removes it, after a copy is put aside (and not at
+ *  all when the copy cannot be made). Returns the backup key when one was made. */
 export function writeExternal(record) {
   const s = store();
-  if (!s) return;
+  if (!s) return null;
   try {
-    if (record) s.setItem(EXTERNAL_KEY, JSON.stringify(record));
-    else s.removeItem(EXTERNAL_KEY);
+    if (record) {
+      s.setItem(EXTERNAL_KEY, JSON.stringify(record));
+      return null;
+    }
+    const text = read(s, EXTERNAL_KEY);
+    if (typeof text !== 'string') return null;
+    const key = backup(EXTERNAL_KEY, text);
+    if (key) remove(s, EXTERNAL_KEY);
+    return key;
   } catch {
     /* storage full: the fragment still holds the record */
+    return null;
   }
 }

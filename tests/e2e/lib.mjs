@@ -61,7 +61,7 @@ export async function pickTemplate(page, id) {
   // Open the template's field group first, as a person would, when it is folded.
   if (!(await button.isVisible())) await page.locator('#template-groups details', { has: button }).locator('summary').click();
   await button.click();
-  await page.waitForSelector(`#vars tbody tr`);
+  await page.waitForSelector(`#vars tfoot tr`);
 }
 
 export async function setValue(page, symbol, value, unit) {
@@ -69,8 +69,22 @@ export async function setValue(page, symbol, value, unit) {
   if (unit) await page.selectOption(`#unit-${symbol}`, unit);
 }
 
+/** Chooses the quantity to find with the "Solve for" buttons above the inputs. */
 export async function chooseUnknown(page, symbol) {
-  await page.check(`#find-${symbol}`);
+  const b = page.locator(`#find-${symbol}`);
+  if ((await b.getAttribute('aria-pressed')) !== 'true') await b.click();
+}
+
+export async function isUnknown(page, symbol) {
+  return (await page.getAttribute(`#find-${symbol}`, 'aria-pressed')) === 'true';
+}
+
+/** Screenshots people look at, kept outside the repository when TACIT_SHOTS names a folder. */
+export async function lookShot(page, name, opts = {}) {
+  const dir = process.env.TACIT_SHOTS || ARTIFACTS;
+  mkdirSync(dir, { recursive: true });
+  await page.screenshot({ path: join(dir, `${name}.png`), fullPage: true, ...opts });
+  return join(dir, `${name}.png`);
 }
 
 export async function solveAndRead(page, symbol) {

@@ -76,11 +76,13 @@ test('tablet width and the printed record', async () => {
     side: getComputedStyle(document.querySelector('.side')).display,
     head: getComputedStyle(document.querySelector('.record-head')).display,
     date: document.getElementById('record-date').textContent,
+    tool: document.getElementById('record-tool').textContent,
   }));
   assert.equal(visible.side, 'none');
   assert.equal(visible.head, 'block');
-  assert.match(visible.date, /tacit \d+\.\d+\.\d+/);
-  for (const needed of ['#equation math', '#vars tbody tr', '#result .big-number', '#history-table tbody tr', '#sensitivity tbody tr', '.foot-caution']) {
+  assert.match(visible.date, /^Date: \d{4}-\d\d-\d\d /);
+  assert.match(visible.tool, /tacit \d+\.\d+\.\d+/);
+  for (const needed of ['#equation math', '#vars tbody tr', '#vars tfoot .answer-line', '#result .big-number', '#history-table tbody tr', '#sensitivity tbody tr', '.foot-caution']) {
     assert.ok(await page.locator(needed).first().isVisible(), `${needed} is in the printed record`);
   }
   await shot(page, 'record-print');

@@ -2,7 +2,7 @@
 // what happens to a tampered link or damaged storage.
 import { test, before, after } from 'node:test';
 import assert from 'node:assert/strict';
-import { launch, openPage, checkClean, pickTemplate, setValue, chooseUnknown, solveAndRead, fragmentFor, b64url, shot } from './lib.mjs';
+import { launch, openPage, checkClean, pickTemplate, setValue, chooseUnknown, isUnknown, solveAndRead, fragmentFor, b64url, shot } from './lib.mjs';
 
 let browser;
 before(async () => { browser = await launch(); });
@@ -37,7 +37,7 @@ test('bookmark round trip: the link restores the same state and the same result'
   assert.equal(await b.page.inputValue('#val-Re'), '250000');
   assert.equal(await b.page.inputValue('#val-eps'), '0.046');
   assert.equal(await b.page.inputValue('#unit-D'), 'm');
-  assert.equal(await b.page.isChecked('#find-D'), true);
+  assert.equal(await isUnknown(b.page, 'D'), true);
   assert.equal(await b.page.inputValue('#method'), 'secant');
   assert.equal(await b.page.inputValue('#tol-xRel'), '1e-13');
   assert.equal(await b.page.inputValue('#tol-maxEvals'), '60');
@@ -52,7 +52,7 @@ test('own equations travel in the link too', async () => {
   await a.page.click('#mode-custom');
   await a.page.fill('#custom-text', 'y = x^2 + c');
   await a.page.waitForSelector('#find-x');
-  await a.page.check('#find-x');
+  await chooseUnknown(a.page, 'x');
   await a.page.fill('#val-y', '11');
   await a.page.fill('#val-c', '2');
   const x1 = await solveAndRead(a.page, 'x');
@@ -81,7 +81,7 @@ test('the saved list survives a reload; rename and delete work', async () => {
   await pickTemplate(page, 'pipes.colebrook');
   await page.click('#saved-list li button:has-text("Open")');
   await page.waitForFunction(() => document.getElementById('val-Re')?.value === '250000');
-  assert.equal(await page.isChecked('#find-D'), true);
+  assert.equal(await isUnknown(page, 'D'), true);
   await page.click('#saved-list li button:has-text("Rename")');
   await page.fill('#saved-list li input', 'Riser 3, revised');
   await page.click('#saved-list li button:has-text("Keep")');
@@ -89,6 +89,7 @@ test('the saved list survives a reload; rename and delete work', async () => {
   await page.waitForFunction(() => globalThis.tacitPage?.ready === true);
   assert.equal(await page.textContent('#saved-list li .saved-name'), 'Riser 3, revised');
   await page.click('#saved-list li button:has-text("Delete")');
+  await page.click('#saved-list li .confirm button:has-text("Delete")');
   assert.equal(await page.locator('#saved-list li').count(), 0);
   await page.reload();
   await page.waitForFunction(() => globalThis.tacitPage?.ready === true);

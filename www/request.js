@@ -1,0 +1,147 @@
+// Reading the set-up form into a solver request. Bad input throws FormError naming the
+// value and marking its field; nothing typed is changed.
+
+import { byId } from './dom.js';
+import { parseNumber } from './format.js';
+import { app, currentTemplate, currentVariables, unknownList, chosenUnit, FormError, readNumber } from './ctx.js';
+
+const TOL_NAMES = { xRel: 'Relative step tolerance', xAbs: 'Absolute step tolerance', fAbs: 'Residual tolerance', maxEvals: 'Evaluation budget' };
+
+/** Defaults by hand: a bench test or a week-long simulation rarely resolves more than four
+ *  or five significant digits, and every evaluation costs hours, so by hand the step
+ *  tolerance defaults to 1e-4 (relative) and the budget to 30 evaluations. */
+export const BY_HAND_DEFAULTS = { xRel: 1e-4, maxEvals: 30 };
+
+export function readTolerances() {
+  const t = {};
+  for (const k of Object.keys(TOL_NAMES)) {
+    const el = byId(`tol-${k}`);
+    el.removeAttribute('aria-invalid');
+    const v = readNumber(app.S.tol[k], TOL_NAMES[k], el);
+    if (v === null) {
+      if (app.S.mode === 'external' && BY_HAND_DEFAULTS[k] !== undefined) t[k] = BY_HAND_DEFAULTS[k];
+      continue;
+    }
+    if (k === 'maxEvals' && !(Number.isInteger(v) && v >= 2)) {
+      el.setAttribute('aria-invalid', 'true');
+      throw new FormError(`${TOL_NAMES[k]}: must be a whole number of at least 2, got ${app.S.tol[k]}`);
+    }
+    if (k !== 'maxEvals' && v < 0) {
+      el.setAttribute('aria-invalid', 'true');
+      throw new FormError(`${TOL_NAMES[k]}: must be 0 or more, got ${app.S.tol[k]}`);
+    }
+    t[k] = v;
+  }
+  return t;
+}
+
+export const startKind = () => (app.S.mode === 'template' && app.S.start.kind === 'bracket' ? 'guesses' : app.S.start.kind);
+
+export function readStart() {
+  const S = app.S;
+  const kind = startKind();
+  if (kind === 'default') return {};
+  const ea = byId('start-a');
+  const eb = byId('start-b');
+  ea.removeAttribute('aria-invalid');
+  eb.removeAttribute('aria-invalid');
+  const a = readNumber(S.start.a, kind === 'bracket' ? 'Lower end of the bracket' : 'First guess', ea);
+  const b = readNumber(S.start.b, kind === 'bracket' ? 'Upper end of the bracket' : 'Second guess', eb);
+  if (a === null || b === null) throw new FormError(`Give both ${kind === 'bracket' ? 'ends of the bracket' : 'guesses'}, or let the solver choose.`);
+  if (a === b) throw new FormError(`The two starting points must differ; both are ${a}.`);
+  return kind === 'bracket' ? { bracket: [a, b] } : { guesses: [a, b] };
+}
+
+function readKnowns() {
+  const out = {};
+  const unknowns = unknownList();
+  const missing = [];
+  for (const v of currentVariables()) {
+    if (unknowns.includes(v.symbol)) continue;
+    const el = document.getElementById(`val-${v.symbol}`);
+    el?.removeAttribute('aria-invalid');
+    const entry = app.S.values[v.symbol] ?? { v: '', u: '' };
+    const value = readNumber(entry.v, `Value of ${v.symbol}`, el);
+    if (value === null) {
+      el?.setAttribute('aria-invalid', 'true');
+      missing.push(v.symbol);
+      continue;
+    }
+    out[v.symbol] = { value, unit: chosenUnit(v.symbol) };
+  }
+  if (missing.length) throw new FormError(`Give a value for ${missing.join(', ')}, or choose ${missing.length === 1 ? 'it' : 'one'} under "Solve for".`);
+  return out;
+}
+
+function readList(t) {
+  const text = app.S.values[t.list.symbol]?.v ?? byId('list-text').value;
+  const parts = text.split(/[\s,;]+/).filter(Boolean);
+  const out = [];
+  parts.forEach((p, i) => {
+    const r = parseNumber(p);
+    if (r.error) {
+      byId('list-text').setAttribute('aria-invalid', 'true');
+      throw new FormError(`${t.list.symbol}, item ${i + 1}: ${r.error}`);
+    }
+    out.push(r.value);
+  });
+  if (out.length < 2) throw new FormError(`${t.list.symbol} needs at least two values.`);
+  return out;
+}
+
+const METHOD_WORDS = {
+  auto: 'automatic (secant steps, then the bracketing hybrid once a sign change is seen)',
+  secant: 'classic secant',
+  hybrid: 'bracketing hybrid',
+  illinois: 'Illinois false position',
+  bisection: 'bisection',
+};
+
+/** The settings of a request in words, for the result and the record. */
+export function settingsFacts(req, unit = '') {
+  const t = req.tolerances ?? {};
+  const u = unit ? ` ${unit}` : '';
+  const start = req.bracket ? `bracket from ${req.bracket.join(' to ')}${u}` : req.guesses ? `guesses ${req.guesses.join(' and ')}${u}` : "the solver's own starting points";
+  return [
+    ['Method', METHOD_WORDS[req.method] ?? String(req.method)],
+    ['Start', start],
+    ['Step tolerance', `relative ${t.xRel ?? '10⁻¹² (default)'}, absolute ${t.xAbs ?? '0 (default)'}`],
+    ['Residual tolerance', t.fAbs === undefined ? '0 (default: only a step or an exact zero ends the search)' : String(t.fAbs)],
+    ['Evaluation budget', String(t.maxEvals ?? '200 (default)')],
+  ];
+}
+
+/** Builds the request for the current calculation. Throws FormError for bad input. */
+export function buildRequest() {
+  const S = app.S;
+  const base = { method: S.method, tolerances: readTolerances(), ...readStart() };
+  if (S.mode === 'template') {
+    const t = currentTemplate();
+    if (!t) throw new FormError('Choose a template from the catalogue first.');
+    if (!S.unknown) throw new FormError('Choose the quantity to find under "Solve for".');
+    // Every known with its unit; a list input (cash flows) as a list of numbers in its unit.
+    const values = Object.fromEntries(Object.entries(readKnowns()).map(([symbol, { value, unit }]) => [symbol, unit ? { value, unit } : value]));
+    if (t.list) values[t.list.symbol] = readList(t);
+    const spec = { template: t.id, values, unknown: S.unknown };
+    const ru = chosenUnit(S.unknown);
+    if (ru) spec.resultUnit = ru;
+    const opts = { history: true, sensitivities: true, ...base };
+    return { kind: 'template', spec, opts, req: { ...spec, ...opts } };
+  }
+  if (S.mode === 'custom') {
+    const c = app.customCheck;
+    if (!c) throw new FormError('Write an equation first.');
+    if (!c.ok) throw new FormError(`The equations do not read correctly: ${c.message}`);
+    const unknowns = unknownList();
+    if (unknowns.length === 0) throw new FormError('Choose the variable to find under "Solve for".');
+    if (unknowns.length !== c.equations) throw new FormError(`${c.equations} equation${c.equations === 1 ? '' : 's'} need${c.equations === 1 ? 's' : ''} exactly ${c.equations} unknown${c.equations === 1 ? '' : 's'}; ${unknowns.length} ${unknowns.length === 1 ? 'is' : 'are'} chosen under "Solve for".`);
+    const knowns = Object.fromEntries(Object.entries(readKnowns()).map(([k, v]) => [k, v.value]));
+    const { guesses, bracket, ...rest } = base;
+    let spec = unknowns;
+    if (unknowns.length === 1 && (guesses || bracket)) spec = [{ name: unknowns[0], guesses: guesses ?? bracket }];
+    const opts = { history: true, sensitivities: true, ...rest };
+    const problemSpec = { equations: S.equations, knowns, unknowns: spec };
+    return { kind: 'equation', spec: problemSpec, opts, req: { ...problemSpec, ...opts }, start: { guesses, bracket } };
+  }
+  throw new FormError('This mode has no Solve button.');
+}
