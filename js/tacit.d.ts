@@ -382,6 +382,8 @@ export interface TemplateRequest {
   unknown: string;
   /** Unit of the result (default: the template's default unit for the unknown). */
   resultUnit?: string;
+  /** The unit to show each auxiliary quantity or output in (its display unit when absent). */
+  outputUnits?: Readonly<Record<string, string>>;
   /** Starting guesses, in the result unit (default: the template's starter or guesses). */
   guesses?: NumberPair;
   /** The branch wanted, by its label (`"subsonic"`, `"liquid-like"`); default: the template's. */
@@ -601,6 +603,8 @@ export interface SweepRequest extends SweepSpec {
   id?: string;
   values?: TemplateValues;
   resultUnit?: string;
+  /** The unit to show each auxiliary quantity or output in (its display unit when absent). */
+  outputUnits?: Readonly<Record<string, string>>;
   branch?: string;
   useScenarioDefaults?: boolean;
   equations?: string;
@@ -649,6 +653,9 @@ export type ProblemSpec =
       values?: TemplateValues;
       unknown: string;
       resultUnit?: string;
+      outputUnits?: Readonly<Record<string, string>>;
+  /** The unit to show each auxiliary quantity or output in (its display unit when absent). */
+  outputUnits?: Readonly<Record<string, string>>;
       branch?: string;
       useScenarioDefaults?: boolean;
     }
@@ -657,6 +664,9 @@ export type ProblemSpec =
       values?: TemplateValues;
       unknown: string;
       resultUnit?: string;
+      outputUnits?: Readonly<Record<string, string>>;
+  /** The unit to show each auxiliary quantity or output in (its display unit when absent). */
+  outputUnits?: Readonly<Record<string, string>>;
       branch?: string;
       useScenarioDefaults?: boolean;
     }

@@ -130,6 +130,9 @@ pub struct TemplateCall {
     pub unknown: String,
     #[serde(default)]
     pub result_unit: Option<String>,
+    /// The unit to show each auxiliary quantity or output in.
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub output_units: Option<BTreeMap<String, String>>,
     #[serde(default)]
     pub branch: Option<String>,
     #[serde(default)]
@@ -162,6 +165,7 @@ impl TemplateCall {
             branch: self.branch.clone(),
             use_scenario_defaults: self.use_scenario_defaults,
             uncertainties: self.uncertainties.clone(),
+            output_units: self.output_units.clone(),
             ..ProblemSpec::default()
         }
     }
@@ -474,6 +478,7 @@ pub fn sweep(req: &SweepCall) -> Result<SweepReport, InputError> {
         unknown: req.unknown.clone(),
         unknowns: None,
         uncertainties: None,
+        output_units: None,
     };
     if let Some(b) = req.bounds {
         if req.equations.is_none() {

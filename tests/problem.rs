@@ -260,3 +260,31 @@ fn a_template_sweep_takes_its_input_in_the_unit_it_was_given_in() {
     .unwrap();
     assert!(close(r.root[3], at_end.root.unwrap(), 1e-10), "{r:?}");
 }
+
+#[test]
+fn a_templates_outputs_come_in_the_units_asked_for() {
+    // Hazen–Williams with US inputs: the mean velocity V = 4Q/(πD²) asked in ft/s
+    // (closed form; 1 ft = 0.3048 m, 1 in = 0.0254 m, 1 gal = 3.785411784 L, NIST SP
+    // 811 Appendix B).
+    let spec = r#"{"template": "pipes.hazen-williams", "unknown": "hf", "resultUnit": "ft",
+        "values": {"L": [1500, "ft"], "Q": [600, "gpm"], "C": 120, "D": [8, "in"]},
+        "outputUnits": {"V": "ft/s"}}"#;
+    let r = problem(spec).solve(&SolveOptions::default()).unwrap();
+    assert!(r.converged);
+    let v = r.outputs.iter().find(|o| o.symbol == "V").unwrap();
+    assert_eq!(v.unit, "ft/s");
+    let q = 600.0 * 3.785411784e-3 / 60.0;
+    let d = 8.0 * 0.0254;
+    let want = 4.0 * q / (std::f64::consts::PI * d * d) / 0.3048;
+    assert!(close(v.value, want, 1e-12), "{} vs {want}", v.value);
+    // Without it, the template's display unit.
+    let plain = spec.replace(r#""outputUnits": {"V": "ft/s"}"#, r#""outputUnits": {}"#);
+    let r = problem(&plain).solve(&SolveOptions::default()).unwrap();
+    let v = r.outputs.iter().find(|o| o.symbol == "V").unwrap();
+    assert_eq!(v.unit, "m/s");
+    // A unit of another dimension, or a symbol the template does not show, is refused.
+    let e = compile_error(&spec.replace("ft/s", "gpm"));
+    assert!(e.message.contains("spec.outputUnits.V"), "{}", e.message);
+    let e = compile_error(&spec.replace(r#""V": "ft/s""#, r#""Z": "ft/s""#));
+    assert!(e.message.contains("spec.outputUnits.Z"), "{}", e.message);
+}

@@ -111,6 +111,22 @@ export function settingsFacts(req, unit = '') {
   ];
 }
 
+/**
+ * The unit to show each of the template's other quantities in: the unit the user chose
+ * for a quantity of the same kind (a velocity in ft/s when a length is in ft is not
+ * guessed; only the same dimension counts). The core converts.
+ */
+function outputUnits(t) {
+  const out = {};
+  for (const o of [...(t.auxiliary ?? []), ...(t.outputs ?? [])]) {
+    if (!o.dimension || o.dimension === 'dimensionless') continue;
+    const same = t.variables.find((v) => v.dimension === o.dimension && chosenUnit(v.symbol));
+    const unit = same ? chosenUnit(same.symbol) : null;
+    if (unit && unit !== o.unit) out[o.symbol] = unit;
+  }
+  return out;
+}
+
 /** Builds the request for the current calculation. Throws FormError for bad input. */
 export function buildRequest() {
   const S = app.S;
@@ -125,6 +141,8 @@ export function buildRequest() {
     const spec = { template: t.id, values, unknown: S.unknown };
     const ru = chosenUnit(S.unknown);
     if (ru) spec.resultUnit = ru;
+    const ou = outputUnits(t);
+    if (Object.keys(ou).length) spec.outputUnits = ou;
     const opts = { history: true, sensitivities: true, ...base };
     return { kind: 'template', spec, opts, req: { ...spec, ...opts } };
   }

@@ -324,6 +324,12 @@ impl Problem {
             sensitivities: false,
             branch: spec.branch.clone(),
             use_scenario_defaults: spec.use_scenario_defaults,
+            output_units: spec
+                .output_units
+                .iter()
+                .flatten()
+                .map(|(s, u)| (s.clone(), u.clone()))
+                .collect(),
         };
         Ok(Problem {
             kind: Kind::Template(Box::new(templates::compile(&req)?)),
@@ -335,6 +341,7 @@ impl Problem {
         for (field, given) in [
             ("values", spec.values.is_some()),
             ("resultUnit", spec.result_unit.is_some()),
+            ("outputUnits", spec.output_units.is_some()),
             ("branch", spec.branch.is_some()),
             ("useScenarioDefaults", spec.use_scenario_defaults),
         ] {

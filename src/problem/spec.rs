@@ -434,6 +434,10 @@ pub struct ProblemSpec {
     /// A template's answer unit (the variable's default unit when absent).
     #[serde(default)]
     pub result_unit: Option<String>,
+    /// A template's auxiliary quantities and outputs: the unit to show each in (its
+    /// display unit when absent).
+    #[serde(default, deserialize_with = "bounded::opt_map")]
+    pub output_units: Option<BTreeMap<String, String>>,
     /// A template's branch, by its label.
     #[serde(default)]
     pub branch: Option<String>,

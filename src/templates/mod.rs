@@ -360,6 +360,10 @@ pub struct TemplateRequest {
     /// Take the demo scenario's value for every known not given (off: a missing known
     /// is an error naming it).
     pub use_scenario_defaults: bool,
+    /// (symbol, unit): the unit to show an auxiliary quantity or output in, instead of
+    /// its display unit (checked at compile: a symbol the template shows, a unit of its
+    /// dimension).
+    pub output_units: Vec<(String, String)>,
 }
 
 impl TemplateRequest {
@@ -375,6 +379,7 @@ impl TemplateRequest {
             sensitivities: false,
             branch: None,
             use_scenario_defaults: true,
+            output_units: Vec::new(),
         }
     }
 }
@@ -619,6 +624,27 @@ pub fn compile(req: &TemplateRequest) -> Result<Compiled, InputError> {
         )
     })?;
     let unknown = the_unknown(t, &req.unknown)?;
+    for (symbol, u) in &req.output_units {
+        let place = format!("spec.outputUnits.{symbol}");
+        let dimension = t
+            .auxiliary
+            .iter()
+            .map(|a| (&a.symbol, &a.dimension))
+            .chain(t.outputs.iter().map(|o| (&o.symbol, &o.dimension)))
+            .find(|(s, _)| *s == symbol)
+            .map(|(_, d)| d)
+            .ok_or_else(|| {
+                InputError::new(
+                    "unknown-variable",
+                    format!(
+                        "{place}: template {} shows no quantity \"{symbol}\" with its result",
+                        t.id
+                    ),
+                )
+            })?;
+        units::from_si_in(1.0, u, dimension)
+            .map_err(|e| InputError::new(e.code, format!("{place}: {}", e.message)))?;
+    }
     let unit = req
         .result_unit
         .clone()
@@ -1195,6 +1221,12 @@ impl Compiled {
                         .map(|o| (&o.symbol, &o.meaning, &o.dimension, &o.unit)),
                 );
             for (symbol, meaning, dimension, unit) in shown {
+                let unit = self
+                    .req
+                    .output_units
+                    .iter()
+                    .find(|(s, _)| s == symbol)
+                    .map_or(unit, |(_, u)| u);
                 if let Some(v) = lookup(symbol) {
                     outputs.push(OutputValue {
                         symbol: symbol.clone(),
