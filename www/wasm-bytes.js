@@ -1,43 +1,29 @@
-// The solver's wasm, inlined by scripts/build-page.mjs as gzip compressed bytes written 7
-// bits per character in an inert data block, inflated with the browser's own
-// DecompressionStream and compiled as it streams out (no network involved). See encode7 in
+// The solver's wasm, inlined by scripts/build-page.mjs as gzip compressed bytes written one
+// byte per character (the page is windows-1252) in an inert data block, inflated with the browser's own
+// DecompressionStream and compiled as it streams out (no network involved). See encode8 in
 // build-page.mjs.
 //
 // startWasm runs first in the page's small classic script, which build-page.mjs places
-// right after the data block and which carries the text of decode7 and startWasm from this
+// right after the data block and which carries the text of decode8 and startWasm from this
 // file: inflating and compiling then overlap the parsing and running of the page's module
 // script. wasmBytes and wasmModule take what it started (or start it, if it could not).
 
-export function decode7(text, length) {
-  const FORBIDDEN = [0x00, 0x0d, 0x3c];
+// The page is read as windows-1252 (its meta charset), one byte a character: every byte
+// value becomes one character, which the browser's own decoder of that encoding maps back.
+// The values the HTML parser would alter or that could end the element (NUL, CR and "<"),
+// and the escape byte itself, are written as the escape byte 0x01 and one of "@ABC".
+export function decode8(text, length) {
+  const FORBIDDEN = [0x00, 0x0d, 0x3c, 0x01];
+  const all = new Uint8Array(256);
+  for (let i = 0; i < 256; i++) all[i] = i;
+  const chars = new TextDecoder('windows-1252').decode(all);
+  const back = new Uint8Array(0x10000);
+  for (let i = 0; i < 256; i++) back[chars.charCodeAt(i)] = i;
   const out = new Uint8Array(length);
-  let acc = 0;
-  let nbits = 0;
   let n = 0;
-  // One tight loop (it runs once, cold, on every page load): each character gives 7 bits,
-  // an escape character gives a forbidden 7-bit value and the next 7 bits.
-  for (let i = 0, len = text.length; i < len; i++) {
-    let c = text.charCodeAt(i);
-    let second = -1;
-    if (c >= 0x80) {
-      const v = c - 0x100;
-      c = FORBIDDEN[v >> 7];
-      second = v & 0x7f;
-    }
-    acc = ((acc << 7) | c) & 0x7fff;
-    nbits += 7;
-    if (nbits >= 8) {
-      nbits -= 8;
-      if (n < length) out[n++] = (acc >> nbits) & 0xff;
-    }
-    if (second >= 0) {
-      acc = ((acc << 7) | second) & 0x7fff;
-      nbits += 7;
-      if (nbits >= 8) {
-        nbits -= 8;
-        if (n < length) out[n++] = (acc >> nbits) & 0xff;
-      }
-    }
+  for (let i = 0, len = text.length; i < len && n < length; i++) {
+    const b = back[text.charCodeAt(i)];
+    out[n++] = b === 0x01 ? FORBIDDEN[back[text.charCodeAt(++i)] - 0x40] : b;
   }
   if (n !== length) throw new Error(`the inlined solver is damaged (${n} of ${length} bytes)`);
   return out;
@@ -47,7 +33,7 @@ export function decode7(text, length) {
 export function startWasm() {
   const el = document.getElementById('wasm-gz');
   if (!el) throw new Error('the page was built without the solver (no inlined wasm)');
-  const gz = decode7(el.textContent, Number(el.dataset.length));
+  const gz = decode8(el.textContent, Number(el.dataset.length));
   const [forBytes, forModule] = new Blob([gz]).stream().pipeThrough(new DecompressionStream('gzip')).tee();
   const bytes = new Response(forBytes).arrayBuffer().then((b) => new Uint8Array(b));
   const module = WebAssembly.compileStreaming(new Response(forModule, { headers: { 'content-type': 'application/wasm' } }));
