@@ -306,7 +306,8 @@ const template = readFileSync(join(root, 'www/index.html'), 'utf8');
 
 // The data script sets two globals read by app.js, and starts inflating and compiling the
 // wasm (startWasm of www/wasm-bytes.js, whose text it carries) while the module script is
-// inflated, parsed and run. It is a classic script so it runs first; a failure to start the
+// inflated, parsed and run (the script's inflating starts first: it is small, and would
+// otherwise wait behind the wasm's). It is a classic script so it runs first; a failure to start the
 // wasm is left for the page's module to meet and report. It then inflates the module script
 // from #page-gz and appends it to the body (where the element stood before it was
 // compressed) as <script type="module" id="page-script">: the sweep worker reads its text
@@ -315,7 +316,7 @@ const wasmLoader = await import(pathToFileURL(join(root, 'www/wasm-bytes.js')).h
 const dataJs =
   `globalThis.__TACIT_VERSION = ${JSON.stringify(version)};\n` +
   `globalThis.__TACIT_BUILT = ${JSON.stringify(new Date().toISOString().slice(0, 10))};\n` +
-  `(() => {\n${wasmLoader.decode8}\n${wasmLoader.startWasm}\ntry { globalThis.__tacitWasm = startWasm(); } catch { /* reported by the page */ }\n` +
+  `(() => {\n${wasmLoader.decode8}\n${wasmLoader.startWasm}\n` +
   `(async () => {\n` +
   `  const el = document.getElementById('page-gz');\n` +
   `  const gz = decode8(el.textContent, Number(el.dataset.length));\n` +
@@ -329,6 +330,7 @@ const dataJs =
   `  const t = document.getElementById('calc-title');\n` +
   `  if (t) t.textContent = 'The page cannot start in this browser: ' + e;\n` +
   `});\n` +
+  `try { globalThis.__tacitWasm = startWasm(); } catch { /* reported by the page */ }\n` +
   `})();\n`;
 // The text the CSP hash is of: the script as inserted (no HTML parsing touches it, but it
 // is guarded as before, so that its text and hash stay those of the inline element).
