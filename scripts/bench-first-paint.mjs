@@ -93,7 +93,8 @@ async function wasmAlone() {
 // The floor for any page that carries this wasm: dist/tacit.html cut down to its inlined
 // wasm and its classic loader script, opened from disk; it records when the module is
 // compiled and instantiated (stub imports), counted from the start of navigation.
-const html = readFileSync(pagePath, "utf8");
+// Read byte for byte (latin1): the inlined data of a windows-1252 page is not UTF-8.
+const html = readFileSync(pagePath, "latin1");
 // Pages built before the classic loader started the wasm have no floor to cut out.
 const hasLoader = html.includes("__tacitWasm");
 const dataBlock = html.match(/<script type="application\/octet-stream" id="wasm-gz"[^>]*>[^<]*<\/script>/)[0];
@@ -101,10 +102,11 @@ const loader = html.match(/<script>([\s\S]*?)<\/script>/)[0];
 const floorPath = join(mkdtempSync(join(tmpdir(), "tacit-floor-")), "wasm-only.html");
 writeFileSync(
   floorPath,
-  `<!doctype html><html><head><meta charset="utf-8"><title>wasm only</title></head><body><p>wasm only</p>\n${dataBlock}\n${loader}\n` +
+  `<!doctype html><html><head><meta charset="${/<meta charset="windows-1252">/.test(html) ? "windows-1252" : "utf-8"}"><title>wasm only</title></head><body><p>wasm only</p>\n${dataBlock}\n${loader}\n` +
     `<script type="module">const m = await globalThis.__tacitWasm.module; const imports = {};\n` +
     `for (const { module, name } of WebAssembly.Module.imports(m)) (imports[module] ??= {})[name] = () => { throw new Error("stub"); };\n` +
     `await WebAssembly.instantiate(m, imports); globalThis.__readyMs = performance.now();</script></body></html>`,
+  "latin1",
 );
 
 async function wasmOnlyPage() {

@@ -9,6 +9,10 @@
 //   that script's own text to a Blob-URL worker, where the worker entry runs instead;
 // - the wasm goes in gzip-compressed (by zopfli), as 7-bit text in an inert data block;
 //   the page inflates it with the browser's DecompressionStream;
+// - the module script goes in the same way (compressed, 7-bit text, inert); the small
+//   classic script inflates it and inserts it as the inline module script #page-script,
+//   which the CSP allows by the sha256 hash of its text (hashes allow inline scripts
+//   inserted from script too); it cannot be eval'd, so it is inflated, not decoded;
 // - the CSS is inlined in a <style> element;
 // - the script and the CSS are minified by esbuild.
 // Without the npm devDependencies (esbuild, @gfx/zopfli) the page still builds, larger.
@@ -221,33 +225,20 @@ const sha256 = (text) => createHash('sha256').update(text, 'utf8').digest('base6
 // A closing script tag inside inlined code would end the element early.
 const guardScript = (text) => text.replace(/<\/(script)/gi, '<\\/$1').replace(/<!--/g, '<\\!--');
 
-// The gzip-compressed wasm as text in an inert <script type="application/octet-stream">
-// block: 7 bits per character, which costs 8/7 of the bytes where base64 costs 4/3. The
-// values the HTML parser would alter or that could end the element (NUL, CR and "<") are
-// written as one character above U+00FF that carries their index and the next 7 bits.
-// decode7 in www/wasm-bytes.js decodes it.
-const FORBIDDEN = [0x00, 0x0d, 0x3c];
-function encode7(bytes) {
-  const groups = [];
-  let acc = 0;
-  let nbits = 0;
+// The gzip-compressed wasm as bytes in an inert <script type="application/octet-stream">
+// block. The page declares windows-1252, in which every byte is one character, so a byte
+// costs one byte (7-bit text cost 8/7, base64 4/3). The values the HTML parser would alter
+// or that could end the element (NUL, CR and "<"), and the escape byte 0x01 itself, are
+// written as 0x01 and one of "@ABC". decode8 in www/wasm-bytes.js decodes it.
+const FORBIDDEN8 = [0x00, 0x0d, 0x3c, 0x01];
+function encode8(bytes) {
+  const out = [];
   for (const b of bytes) {
-    acc = (acc << 8) | b;
-    nbits += 8;
-    while (nbits >= 7) {
-      nbits -= 7;
-      groups.push((acc >> nbits) & 0x7f);
-    }
-    acc &= (1 << nbits) - 1;
+    const idx = FORBIDDEN8.indexOf(b);
+    if (idx < 0) out.push(b);
+    else out.push(0x01, 0x40 + idx);
   }
-  if (nbits > 0) groups.push((acc << (7 - nbits)) & 0x7f);
-  let out = '';
-  for (let i = 0; i < groups.length; i++) {
-    const idx = FORBIDDEN.indexOf(groups[i]);
-    if (idx < 0) out += String.fromCharCode(groups[i]);
-    else out += String.fromCharCode(0x100 + ((idx << 7) | (groups[++i] ?? 0)));
-  }
-  return out;
+  return Buffer.from(out);
 }
 // Zopfli (a devDependency, compiled to wasm) writes an ordinary gzip stream about 6 % smaller
 // than zlib's level 9; the page inflates either the same way. Without it, zlib is used.
@@ -261,9 +252,26 @@ async function gzipSmallest(bytes) {
     return gzipSync(bytes, { level: 9 });
   }
 }
+// The wasm is packed with LZMA by xz-utils (the xz command), about 20 % smaller than
+// zopfli's gzip; the loader decodes it with unlzma of www/wasm-bytes.js, which the build
+// first runs here on the packed bytes and compares with the wasm. Without xz the wasm goes
+// in gzip-compressed and the browser inflates it.
+async function packWasm(bytes) {
+  const r = spawnSync('xz', ['--format=lzma', '--lzma1=preset=9e,lc=3,lp=0,pb=0,nice=273', '-c'], { input: bytes, maxBuffer: 1 << 28 });
+  if (r.status === 0 && r.stdout?.length) {
+    const { unlzma } = await import(pathToFileURL(join(root, 'www/wasm-bytes.js')).href);
+    if (!Buffer.from(unlzma(r.stdout, bytes.length)).equals(bytes)) throw new Error('build-page: the LZMA-packed wasm does not decode to the wasm');
+    return { format: 'lzma', packed: r.stdout };
+  }
+  console.error('build-page: note: xz is not available; the wasm goes in gzip-compressed');
+  return { format: 'gzip', packed: await gzipSmallest(bytes) };
+}
 const wasmBytes = readFileSync(findWasm());
-const wasmGz = await gzipSmallest(wasmBytes);
-const wasmText = encode7(wasmGz);
+const { format: wasmFormat, packed: wasmGz } = await packWasm(wasmBytes);
+const wasmData = encode8(wasmGz);
+// The limit the page must stay within (issue 12): the build prints the page's size against
+// it and fails above it (make page and make test with it).
+const PAGE_LIMIT = 400_000;
 
 let version = 'unknown';
 try {
@@ -305,19 +313,44 @@ if (esbuild) {
   }
 }
 const cssSource = readFileSync(join(root, 'www/style.css'), 'utf8');
-const css = esbuild ? esbuild.transformSync(cssSource, { loader: 'css', minify: true, charset: 'utf8' }).code : cssSource;
+// ASCII (non-ASCII escaped by esbuild): the page is windows-1252, and the text of the style
+// element must stay what its CSP hash is of.
+const css = esbuild ? esbuild.transformSync(cssSource, { loader: 'css', minify: true, charset: 'ascii' }).code : cssSource;
+if (/[^\x00-\x7f]/.test(css)) throw new Error('build-page: www/style.css must be ASCII (or esbuild must be installed)');
 const template = readFileSync(join(root, 'www/index.html'), 'utf8');
 
 // The data script sets two globals read by app.js, and starts inflating and compiling the
-// wasm (startWasm of www/wasm-bytes.js, whose text it carries) while the module script below
-// is parsed and run. It is a classic script so it runs first; a failure here is left for the
-// page's module to meet and report.
+// wasm (startWasm of www/wasm-bytes.js, whose text it carries) while the module script is
+// inflated, parsed and run (the script's inflating starts first: it is small, and would
+// otherwise wait behind the wasm's). It is a classic script so it runs first; a failure to start the
+// wasm is left for the page's module to meet and report. It then inflates the module script
+// from #page-gz and appends it to the body (where the element stood before it was
+// compressed) as <script type="module" id="page-script">: the sweep worker reads its text
+// there. Should that fail (a browser without DecompressionStream), the title says so.
 const wasmLoader = await import(pathToFileURL(join(root, 'www/wasm-bytes.js')).href);
 const dataJs =
   `globalThis.__TACIT_VERSION = ${JSON.stringify(version)};\n` +
   `globalThis.__TACIT_BUILT = ${JSON.stringify(new Date().toISOString().slice(0, 10))};\n` +
-  `(() => {\n${wasmLoader.decode7}\n${wasmLoader.startWasm}\ntry { globalThis.__tacitWasm = startWasm(); } catch { /* reported by the page */ }\n})();\n`;
+  `(() => {\n${wasmLoader.decode8}\n${wasmLoader.unlzma}\n${wasmLoader.startWasm}\n` +
+  `(async () => {\n` +
+  `  const el = document.getElementById('page-gz');\n` +
+  `  const gz = decode8(el.textContent, Number(el.dataset.length));\n` +
+  `  const text = await new Response(new Blob([gz]).stream().pipeThrough(new DecompressionStream('gzip'))).text();\n` +
+  `  const s = document.createElement('script');\n` +
+  `  s.type = 'module';\n` +
+  `  s.id = 'page-script';\n` +
+  `  s.textContent = text;\n` +
+  `  document.body.append(s);\n` +
+  `})().catch((e) => {\n` +
+  `  const t = document.getElementById('calc-title');\n` +
+  `  if (t) t.textContent = 'The page cannot start in this browser: ' + e;\n` +
+  `});\n` +
+  `try { globalThis.__tacitWasm = startWasm(); } catch { /* reported by the page */ }\n` +
+  `})();\n`;
+// The text the CSP hash is of: the script as inserted (no HTML parsing touches it, but it
+// is guarded as before, so that its text and hash stay those of the inline element).
 const pageScript = guardScript(pageJs);
+const pageGz = await gzipSmallest(Buffer.from(pageScript, 'utf8'));
 const dataScript = guardScript(esbuild ? esbuild.transformSync(dataJs, { minify: true, target: 'es2022', charset: 'utf8', legalComments: 'none' }).code : dataJs);
 
 const styleText = `\n${css}`;
@@ -339,21 +372,40 @@ const marker = (name) => {
   if (!template.includes(tag)) throw new Error(`www/index.html lacks the marker ${tag}`);
   return tag;
 };
-let html = template;
+// The page is windows-1252 so that the inlined data costs a byte a byte. The markup's own
+// characters beyond ASCII become character references (the scripts are data or ASCII).
+if (!template.includes('<meta charset="utf-8">')) throw new Error('www/index.html lacks <meta charset="utf-8">');
+let html = template
+  .replace('<meta charset="utf-8">', '<meta charset="windows-1252">')
+  .replace(/[^\x00-\x7f]/gu, (c) => `&#x${c.codePointAt(0).toString(16)};`);
 html = html.replace(marker('csp'), () => `<meta http-equiv="Content-Security-Policy" content="${csp}">`);
 html = html.replace(marker('style'), () => `<style>${styleText}</style>`);
 html = html.replace(
   marker('scripts'),
   () =>
-    `<script type="application/octet-stream" id="wasm-gz" data-length="${wasmGz.length}">${wasmText}</script>\n` +
-    `<script>${dataScript}</script>\n<script type="module" id="page-script">${pageScript}</script>`,
+    `<script type="application/octet-stream" id="wasm-gz" data-format="${wasmFormat}" data-length="${wasmGz.length}" data-size="${wasmBytes.length}">\u0000WASM\u0000</script>\n` +
+    `<script type="application/octet-stream" id="page-gz" data-length="${pageGz.length}">\u0000PAGE\u0000</script>\n` +
+    `<script>${dataScript}</script>`,
 );
 
 mkdirSync(dirname(outPath), { recursive: true });
-writeFileSync(outPath, html);
+if (/[^\x01-\x7f]/.test(html.replace('\u0000WASM\u0000', '').replace('\u0000PAGE\u0000', ''))) {
+  throw new Error('build-page: the page outside its data blocks must be ASCII');
+}
+const [beforeWasm, afterWasm] = html.split('\u0000WASM\u0000');
+const [beforePage, afterPage] = afterWasm.split('\u0000PAGE\u0000');
+const pageData = encode8(pageGz);
+const out = Buffer.concat([Buffer.from(beforeWasm, 'latin1'), wasmData, Buffer.from(beforePage, 'latin1'), pageData, Buffer.from(afterPage, 'latin1')]);
+writeFileSync(outPath, out);
 const kb = (n) => (n / 1024).toFixed(1);
+const pageBytes = out.length;
 console.log(
-  `${relative(root, outPath)}: ${kb(Buffer.byteLength(html))} KB ` +
-    `(wasm ${kb(wasmBytes.length)} KB, gzip ${kb(wasmGz.length)} KB, as text ${kb(Buffer.byteLength(wasmText))} KB; ` +
-    `page and worker script ${kb(pageJs.length)} KB, css ${kb(css.length)} KB)`,
+  `${relative(root, outPath)}: ${pageBytes} bytes, ${kb(pageBytes)} KB ` +
+    `(wasm ${kb(wasmBytes.length)} KB, ${wasmFormat} ${kb(wasmGz.length)} KB, inlined ${kb(wasmData.length)} KB; ` +
+    `page and worker script ${kb(pageJs.length)} KB, gzip ${kb(pageGz.length)} KB; css ${kb(css.length)} KB)`,
 );
+if (pageBytes > PAGE_LIMIT) {
+  console.error(`build-page: the page is ${pageBytes} bytes, ${pageBytes - PAGE_LIMIT} over its limit of ${PAGE_LIMIT} (issue 12); it is written, but the build fails`);
+  process.exit(1);
+}
+console.log(`build-page: the page is ${pageBytes} bytes, ${PAGE_LIMIT - pageBytes} under its limit of ${PAGE_LIMIT}`);

@@ -149,7 +149,15 @@ fn read<T: serde::de::DeserializeOwned>(value: JsValue, what: &str) -> Result<T,
         )));
     }
     strict::TEXT_LEFT.with(|left| left.set(crate::api::MAX_REQUEST_BYTES));
-    crate::problem::spec::read(what, strict::JsReader(value)).map_err(to_js)
+    strict::PATH.with(|p| p.borrow_mut().clear());
+    strict::ERROR_PATH.with(|p| p.borrow_mut().take());
+    let result = T::deserialize(strict::JsReader(value));
+    result.map_err(|e| {
+        let path = strict::ERROR_PATH
+            .with(|p| p.borrow_mut().take())
+            .unwrap_or_default();
+        to_js(crate::problem::spec::bad_field(what, &path, e.to_string()))
+    })
 }
 
 /// A serde reader of JavaScript values for requests. serde-wasm-bindgen's reader reads
@@ -159,9 +167,15 @@ fn read<T: serde::de::DeserializeOwned>(value: JsValue, what: &str) -> Result<T,
 /// characters of text out of one request (counted before each copy, so that one long
 /// string shared by many fields cannot fill the memory), and walks a value only as deep as the
 /// request's types go (skipped values are not walked at all).
+///
+/// It tracks the place of a bad field itself (`PATH`, `ERROR_PATH`; written as
+/// serde_path_to_error writes a path) rather than through serde_path_to_error's wrappers,
+/// and sorts a value by kind in one function that is not generic (`classify`): both keep
+/// the wasm from carrying a copy of the reader per request type and per wrapper.
 mod strict {
     use js_sys::{Array, JsString, Reflect};
     use serde::de::{self, DeserializeSeed, Visitor};
+    use std::cell::RefCell;
     use std::fmt;
     use wasm_bindgen::prelude::*;
     use wasm_bindgen::{JsCast, JsValue};
@@ -212,6 +226,126 @@ mod strict {
     thread_local! {
         /// Characters of text the request being read may still copy.
         pub static TEXT_LEFT: std::cell::Cell<usize> = const { std::cell::Cell::new(0) };
+        /// The place being read: a field name or a list index for each level.
+        pub static PATH: RefCell<Vec<Segment>> = const { RefCell::new(Vec::new()) };
+        /// The place of the first (innermost) error, written as `tolerances.xRel` or
+        /// `values[2]`, empty at the top.
+        pub static ERROR_PATH: RefCell<Option<String>> = const { RefCell::new(None) };
+        /// Whether the value last read reached its visitor (a key that did is named in
+        /// the place of an error, one that did not is `?`).
+        static VISITED: std::cell::Cell<bool> = const { std::cell::Cell::new(false) };
+    }
+
+    pub enum Segment {
+        Key(String),
+        Index(u32),
+        /// A key that could not be read.
+        Unknown,
+    }
+
+    /// Notes the place of an error, unless an inner level has already noted its own.
+    #[inline(never)]
+    fn note_error() {
+        ERROR_PATH.with(|e| {
+            let mut e = e.borrow_mut();
+            if e.is_none() {
+                let mut out = String::new();
+                PATH.with(|p| {
+                    for (i, seg) in p.borrow().iter().enumerate() {
+                        match seg {
+                            Segment::Index(n) => {
+                                out.push('[');
+                                out.push_str(&n.to_string());
+                                out.push(']');
+                            }
+                            Segment::Key(k) => {
+                                if i > 0 {
+                                    out.push('.');
+                                }
+                                out.push_str(k);
+                            }
+                            Segment::Unknown => {
+                                if i > 0 {
+                                    out.push('.');
+                                }
+                                out.push('?');
+                            }
+                        }
+                    }
+                });
+                *e = Some(out);
+            }
+        });
+    }
+
+    /// Runs `read` one level down at `seg`, noting the place if it fails.
+    fn at<T>(seg: Segment, read: impl FnOnce() -> Result<T, Error>) -> Result<T, Error> {
+        PATH.with(|p| p.borrow_mut().push(seg));
+        let r = read();
+        if r.is_err() {
+            note_error();
+        }
+        PATH.with(|p| p.borrow_mut().pop());
+        r
+    }
+
+    /// A JavaScript value sorted by what a visitor is given for it.
+    enum Kind {
+        Unit,
+        Bool(bool),
+        Number(f64),
+        Text(String),
+        List(Seq),
+        Object(Map),
+        Other(JsValue),
+    }
+
+    /// Sorts a value by kind, copying text within the request's limit. Not generic, so
+    /// that there is one copy of it.
+    #[inline(never)]
+    fn classify(v: JsValue) -> Result<Kind, Error> {
+        if v.is_null() || v.is_undefined() {
+            return Ok(Kind::Unit);
+        }
+        if let Some(b) = v.as_bool() {
+            return Ok(Kind::Bool(b));
+        }
+        if let Some(x) = v.as_f64() {
+            return Ok(Kind::Number(x));
+        }
+        if let Some(s) = v.dyn_ref::<JsString>() {
+            let n = s.length() as usize;
+            let left = TEXT_LEFT.with(|l| l.get());
+            if n > left {
+                return Err(Error(format!(
+                    "a text of {n} characters, beyond the limit of {} characters of text in one request",
+                    crate::api::MAX_REQUEST_BYTES
+                )));
+            }
+            TEXT_LEFT.with(|l| l.set(left - n));
+            return match s.as_string() {
+                Some(text) => Ok(Kind::Text(text)),
+                None => Err(Error("a text that is not valid Unicode".into())),
+            };
+        }
+        if Array::is_array(&v) {
+            let len = length(&v)?;
+            return Ok(Kind::List(Seq { a: v, i: 0, len }));
+        }
+        if v.is_object() && !v.is_function() {
+            let keys = object_keys(&v)
+                .map_err(|_| Error("an object whose fields cannot be listed".into()))?;
+            let len = keys.length();
+            return Ok(Kind::Object(Map {
+                obj: v,
+                keys,
+                i: 0,
+                len,
+                value: None,
+                key: String::new(),
+            }));
+        }
+        Ok(Kind::Other(v))
     }
 
     fn unexpected(v: &JsValue) -> de::Unexpected<'static> {
@@ -230,48 +364,17 @@ mod strict {
         type Error = Error;
 
         fn deserialize_any<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, Error> {
-            let v = self.0;
-            if v.is_null() || v.is_undefined() {
-                return visitor.visit_unit();
+            let kind = classify(self.0)?;
+            VISITED.with(|v| v.set(true));
+            match kind {
+                Kind::Unit => visitor.visit_unit(),
+                Kind::Bool(b) => visitor.visit_bool(b),
+                Kind::Number(x) => visitor.visit_f64(x),
+                Kind::Text(text) => visitor.visit_string(text),
+                Kind::List(seq) => visitor.visit_seq(seq),
+                Kind::Object(map) => visitor.visit_map(map),
+                Kind::Other(v) => Err(de::Error::invalid_type(unexpected(&v), &visitor)),
             }
-            if let Some(b) = v.as_bool() {
-                return visitor.visit_bool(b);
-            }
-            if let Some(x) = v.as_f64() {
-                return visitor.visit_f64(x);
-            }
-            if let Some(s) = v.dyn_ref::<JsString>() {
-                let n = s.length() as usize;
-                let left = TEXT_LEFT.with(|l| l.get());
-                if n > left {
-                    return Err(Error(format!(
-                        "a text of {n} characters, beyond the limit of {} characters of text in one request",
-                        crate::api::MAX_REQUEST_BYTES
-                    )));
-                }
-                TEXT_LEFT.with(|l| l.set(left - n));
-                return match s.as_string() {
-                    Some(text) => visitor.visit_string(text),
-                    None => Err(Error("a text that is not valid Unicode".into())),
-                };
-            }
-            if Array::is_array(&v) {
-                let len = length(&v)?;
-                return visitor.visit_seq(Seq { a: v, i: 0, len });
-            }
-            if v.is_object() && !v.is_function() {
-                let keys = object_keys(&v)
-                    .map_err(|_| Error("an object whose fields cannot be listed".into()))?;
-                let len = keys.length();
-                return visitor.visit_map(Map {
-                    obj: v,
-                    keys,
-                    i: 0,
-                    len,
-                    value: None,
-                });
-            }
-            Err(de::Error::invalid_type(unexpected(&v), &visitor))
         }
 
         fn deserialize_option<V: Visitor<'de>>(self, visitor: V) -> Result<V::Value, Error> {
@@ -322,9 +425,18 @@ mod strict {
             if self.i >= self.len {
                 return Ok(None);
             }
-            let item = get(&self.a, &JsValue::from(self.i))?;
+            let i = self.i;
             self.i += 1;
-            seed.deserialize(JsReader(item)).map(Some)
+            let item = match get(&self.a, &JsValue::from(i)) {
+                Ok(item) => item,
+                Err(e) => {
+                    note_error();
+                    return Err(e);
+                }
+            };
+            at(Segment::Index(i), || {
+                seed.deserialize(JsReader(item)).map(Some)
+            })
         }
         fn size_hint(&self) -> Option<usize> {
             Some((self.len - self.i) as usize)
@@ -337,6 +449,8 @@ mod strict {
         i: u32,
         len: u32,
         value: Option<JsValue>,
+        /// The key whose value is next.
+        key: String,
     }
 
     impl<'de> de::MapAccess<'de> for Map {
@@ -350,13 +464,32 @@ mod strict {
             }
             let key = self.keys.get(self.i);
             self.i += 1;
-            let value = get(&self.obj, &key)?;
-            self.value = Some(value);
-            seed.deserialize(JsReader(key)).map(Some)
+            // As serde_path_to_error places it: an error in reading a key is at that key
+            // if the key reached its visitor, else at `?`.
+            let name = key.as_string().unwrap_or_default();
+            VISITED.with(|v| v.set(false));
+            let read = match get(&self.obj, &key) {
+                Ok(value) => {
+                    self.value = Some(value);
+                    seed.deserialize(JsReader(key)).map(Some)
+                }
+                Err(e) => Err(e),
+            };
+            if read.is_err() {
+                let seg = if VISITED.with(|v| v.get()) {
+                    Segment::Key(name)
+                } else {
+                    Segment::Unknown
+                };
+                return at(seg, || read);
+            }
+            self.key = name;
+            read
         }
         fn next_value_seed<V: DeserializeSeed<'de>>(&mut self, seed: V) -> Result<V::Value, Error> {
             let value = self.value.take().unwrap_or(JsValue::UNDEFINED);
-            seed.deserialize(JsReader(value))
+            let key = std::mem::take(&mut self.key);
+            at(Segment::Key(key), || seed.deserialize(JsReader(value)))
         }
     }
 }

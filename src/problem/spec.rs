@@ -18,27 +18,31 @@ where
     T: Deserialize<'de>,
     D: serde::Deserializer<'de>,
 {
-    serde_path_to_error::deserialize(deserializer).map_err(|e| {
-        let path = e.path().to_string();
-        let place = if path == "." || path.is_empty() {
-            what.to_string()
-        } else if let Some(rest) = path.strip_prefix('.') {
-            format!("{what}{rest}")
-        } else if path.starts_with('[') {
-            format!("{what}{path}")
-        } else {
-            format!("{what}.{path}")
-        };
-        let message = e.into_inner().to_string();
-        // "missing field `x`" names the field: say it where it is missing.
-        if let Some(name) = message
-            .strip_prefix("missing field `")
-            .and_then(|rest| rest.split('`').next())
-        {
-            return InputError::new("bad-request", format!("{place}.{name} is missing"));
-        }
-        InputError::new("bad-request", format!("{place}: {message}"))
-    })
+    serde_path_to_error::deserialize(deserializer)
+        .map_err(|e| bad_field(what, &e.path().to_string(), e.into_inner().to_string()))
+}
+
+/// The error of a request whose field at `path` (as serde_path_to_error writes it:
+/// `tolerances.xRel`, `values[2]`, `.` or empty at the top) was refused with `message`.
+/// The bindings track the path themselves and share this wording.
+pub fn bad_field(what: &str, path: &str, message: String) -> InputError {
+    let place = if path == "." || path.is_empty() {
+        what.to_string()
+    } else if let Some(rest) = path.strip_prefix('.') {
+        format!("{what}{rest}")
+    } else if path.starts_with('[') {
+        format!("{what}{path}")
+    } else {
+        format!("{what}.{path}")
+    };
+    // "missing field `x`" names the field: say it where it is missing.
+    if let Some(name) = message
+        .strip_prefix("missing field `")
+        .and_then(|rest| rest.split('`').next())
+    {
+        return InputError::new("bad-request", format!("{place}.{name} is missing"));
+    }
+    InputError::new("bad-request", format!("{place}: {message}"))
 }
 
 /// Reads a request of type `T` from JSON text.

@@ -12,7 +12,8 @@ after(async () => { await browser?.close(); });
 
 const P = (n) => `<img src=x onerror="window.__xss=${n};alert(${n})"><script>window.__xss=${n};alert(${n})</script><svg onload="alert(${n})"></svg>`;
 
-/** The page's own elements: 3 script elements, no img, no element with an on* attribute. */
+/** The page's own elements: 4 script elements (two inert data blocks, the loader and the
+ * module script it inserted), no img, no element with an on* attribute. */
 async function assertNothingInjected(page) {
   const found = await page.evaluate(() => {
     const onAttrs = [...document.querySelectorAll('*')].filter((el) => [...el.attributes].some((a) => a.name.startsWith('on')));
@@ -24,7 +25,7 @@ async function assertNothingInjected(page) {
       iframes: document.querySelectorAll('iframe, object, embed').length,
     };
   });
-  assert.deepEqual(found, { imgs: 0, scripts: 3, onAttrs: [], xss: null, iframes: 0 });
+  assert.deepEqual(found, { imgs: 0, scripts: 4, onAttrs: [], xss: null, iframes: 0 });
 }
 
 test('markup in a link (equations, values, units, labels, ids) stays text', async () => {
@@ -102,15 +103,27 @@ test('the page carries a strict Content-Security-Policy with script hashes', asy
   // Every executable inline script, and the style element, is allowed by its own hash.
   const directive = (name) => csp.split(';').map((d) => d.trim()).find((d) => d.startsWith(`${name} `)) ?? '';
   const hash = (text) => `'sha256-${createHash('sha256').update(text, 'utf8').digest('base64')}'`;
-  const scripts = [...html.matchAll(/<script(?: type="module"[^>]*)?>([\s\S]*?)<\/script>/g)].map((m) => m[1]);
-  assert.equal(scripts.length, 2, 'two executable inline scripts');
-  for (const text of scripts) assert.ok(directive('script-src').includes(hash(text)), 'the script hash is in script-src');
-  assert.equal((directive('script-src').match(/'sha256-/g) || []).length, 2, 'no other script is allowed');
+  // The file holds one executable inline script (the classic loader); the module script is
+  // carried compressed in an inert block, and the loader inserts it inline as #page-script.
+  const inFile = [...html.matchAll(/<script(?: type="module"[^>]*)?>([\s\S]*?)<\/script>/g)].map((m) => m[1]);
+  assert.equal(inFile.length, 1, 'one executable inline script in the file');
+  const inert = [...html.matchAll(/<script type="([^"]*)"/g)].map((m) => m[1]).filter((t) => t !== 'module');
+  assert.deepEqual(inert, ['application/octet-stream', 'application/octet-stream'], 'the other blocks are inert data');
+  assert.doesNotMatch(directive('script-src'), /'unsafe-inline'|'unsafe-eval'|'strict-dynamic'|blob:|data:|\*/);
   const style = html.match(/<style>([\s\S]*?)<\/style>/)[1];
   assert.ok(directive('style-src').includes(hash(style)), 'the style hash is in style-src');
   assert.doesNotMatch(html, /<script[^>]+src=/, 'no external script');
   assert.doesNotMatch(html, /<link[^>]+href=/, 'no external stylesheet or font');
   const { page, log } = await openPage(browser);
+  // The live page runs exactly two inline scripts: the loader and the module it inserted,
+  // each allowed by its own hash and by nothing else.
+  const live = await page.evaluate(() => [...document.scripts].filter((s) => !s.src && (s.type === '' || s.type === 'module')).map((s) => ({ id: s.id, type: s.type, text: s.textContent })));
+  assert.equal(live.length, 2, 'two executable inline scripts run');
+  assert.equal(live[0].text, inFile[0], 'the first is the loader of the file');
+  assert.deepEqual([live[1].id, live[1].type], ['page-script', 'module'], 'the second is the inserted module script');
+  for (const { text } of live) assert.ok(directive('script-src').includes(hash(text)), 'the script hash is in script-src');
+  assert.equal((directive('script-src').match(/'sha256-/g) || []).length, 2, 'no other script is allowed');
+  assert.deepEqual(log.errors, [], 'no violation of the policy while the page started');
   // An injected inline script does not run under the policy (the violation is expected).
   await page.evaluate(() => {
     const s = document.createElement('script');
