@@ -33,6 +33,16 @@ if [ "${TACIT_SKIP_BROWSER:-}" != 1 ]; then
   fi
 fi
 
+# xz packs the page's wasm and script with LZMA (scripts/build-page.mjs; without it the page
+# falls back to gzip and is larger).
+if ! command -v xz >/dev/null; then
+  say "installing Debian's xz-utils"
+  SUDO=""
+  [ "$(id -u)" = 0 ] || SUDO=sudo
+  $SUDO apt-get update -q
+  DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y -q xz-utils
+fi
+
 # npm records what it installed in node_modules/.package-lock.json; a newer lock file means a change.
 if [ ! -f node_modules/.package-lock.json ] || [ package-lock.json -nt node_modules/.package-lock.json ]; then
   say "installing npm packages"
