@@ -573,6 +573,7 @@ pub fn find_roots_function(
         &Conversion::NONE,
         labels,
         None,
+        (lo, hi),
     ))
 }
 

@@ -305,7 +305,7 @@ pub fn roots_in_range(
 
     let mut limits = format!(
         "Scanned [{lo}, {hi}] at {n} evenly spaced samples, {h:e} apart. Roots closer \
-         together than about {h:e} may be missed (two sign changes within one spacing \
+         together than one spacing may be missed (two sign changes within one spacing \
          cancel out), and so may a touching root whose dip does not show as a local \
          minimum of |f| among the samples, or that lies within one spacing of either end. \
          A touching root is accepted only when |f| falls towards zero at its minimum at \

@@ -145,7 +145,8 @@ function wire() {
   byId('setup').addEventListener('keydown', (e) => {
     if (e.key === 'Enter' && e.target.matches('input[type=text]') && !e.target.closest('#record-fields') && app.S.mode !== 'external') solvePressed();
   });
-  byId('roots-scan').addEventListener('click', scanRoots);
+  byId('roots-scan').addEventListener('click', () => scanRoots(false));
+  byId('roots-prove').addEventListener('click', () => scanRoots(true));
   onInput('list-text', (v) => {
     const t = currentTemplate();
     if (!t?.list) return;

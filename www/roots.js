@@ -42,7 +42,7 @@ function rootChoiceList(roots, unit) {
   roots.forEach((rt, i) => {
     const b = h('button', { type: 'button' }, 'Solve for this one');
     b.addEventListener('click', () => chooseRoot(rt.x));
-    const kind = rt.kind === 'touching' ? 'touching (no sign change)' : 'sign change';
+    const kind = rt.kind === 'touching' ? 'touching (no sign change)' : rt.kind === 'proven' ? 'proven the only root in its interval' : 'sign change';
     ul.append(h('li', null, h('span', { class: 'mono' }, `${i + 1}. ${fmt(rt.x, 10)}${unit ? ` ${unit}` : ''}`), h('span', { class: 'hint' }, rt.label ? `${rt.label}, ${kind}` : kind), b));
   });
   return ul;
@@ -56,7 +56,8 @@ function chooseRoot(x) {
   hooks.solve?.();
 }
 
-export function scanRoots() {
+/** Scans the range, or with `proven` proves every root in it (regions unique, none, undecided). */
+export function scanRoots(proven = false) {
   const body = clear(byId('roots-body'));
   let lo;
   let hi;
@@ -72,7 +73,7 @@ export function scanRoots() {
   if (!last) return;
   let found;
   try {
-    found = rootsIn(last, lo, hi);
+    found = rootsIn(last, lo, hi, proven ? { proven: true } : {});
   } catch (e) {
     body.append(h('p', { class: 'error-text' }, e.message));
     return;
@@ -84,6 +85,12 @@ export function scanRoots() {
   else {
     body.append(h('p', null, `${found.roots.length} root${found.roots.length === 1 ? '' : 's'} between ${fmt(lo)} and ${fmt(hi)}${u} (${found.evaluations} evaluations). Choose the one you mean:`));
     body.append(rootChoiceList(found.roots, unit));
+  }
+  if (found.proven) {
+    const undecided = found.regions.filter((g) => g.kind === 'undecided');
+    for (const g of undecided) {
+      body.append(h('p', { class: 'error-text' }, `Undecided from ${fmt(g.lo)} to ${fmt(g.hi)}${u}: ${g.explanation ?? g.why}. A root there is neither proven nor excluded.`));
+    }
   }
   if (found.limits) body.append(h('p', { class: 'hint' }, found.limits));
 }

@@ -43,7 +43,7 @@ export function sampleCurve(problem, history) {
 }
 
 /** Every root in [lo, hi] (in the unit shown) of the last solve's problem. */
-export const rootsIn = (last, lo, hi) => last.problem.roots(lo, hi);
+export const rootsIn = (last, lo, hi, opts = {}) => last.problem.roots(lo, hi, opts);
 
 /** The job for the sweep worker: the problem as solved and the sweep of one of its knowns
  *  (from and to in the unit the input is given in; the core reports every point in the

@@ -805,7 +805,13 @@ impl Problem {
             Kind::Template(t) => t.label_roots(&xs),
             Kind::Equations(_) => vec![None; xs.len()],
         };
-        Ok(RootsReport::from_scan(&found, &c, labels, self.unit()))
+        Ok(RootsReport::from_scan(
+            &found,
+            &c,
+            labels,
+            self.unit(),
+            (lo, hi),
+        ))
     }
 
     /// The residual of the one equation as a compiled program of the one unknown in

@@ -398,6 +398,7 @@ impl RootsReport {
         c: &Conversion,
         labels: Vec<Option<String>>,
         unit: Option<String>,
+        range: (f64, f64),
     ) -> RootsReport {
         let mut labels = labels.into_iter();
         let mut roots: Vec<RangeRootReport> = found
@@ -420,6 +421,7 @@ impl RootsReport {
             })
             .collect();
         roots.sort_by(|p, q| p.x.total_cmp(&q.x));
+        let unit_text = unit.clone();
         RootsReport {
             unit,
             roots,
@@ -431,12 +433,37 @@ impl RootsReport {
             evaluations: found.evaluations,
             samples: found.samples,
             spacing: c.delta_from_si(found.spacing).abs(),
-            limits: found.limits.clone(),
+            limits: scan_limits(found, c, range, unit_text.as_deref()),
             proven: false,
             regions: Vec::new(),
             proof: None,
         }
     }
+}
+
+/// The scan's limits in words, its first sentence (the range and the spacing, in SI in
+/// the core) written again in the unknown's unit.
+fn scan_limits(
+    found: &RangeRoots,
+    c: &Conversion,
+    (a, b): (f64, f64),
+    unit: Option<&str>,
+) -> String {
+    let Some((_, rest)) = found.limits.split_once(" apart. ") else {
+        return found.limits.clone();
+    };
+    let sig = crate::templates::sig;
+    let u = match unit {
+        Some(u) if u != "1" => format!(" {u}"),
+        _ => String::new(),
+    };
+    format!(
+        "Scanned {} to {}{u} at {} evenly spaced samples, {}{u} apart. {rest}",
+        sig(a.min(b)),
+        sig(a.max(b)),
+        found.samples,
+        sig(c.delta_from_si(found.spacing).abs()),
+    )
 }
 
 /// f sampled over a range: `x` in the unknown's unit.

@@ -423,7 +423,7 @@ pub struct TemplateSolution {
 }
 
 /// Six significant figures, for notes.
-fn sig(x: f64) -> String {
+pub fn sig(x: f64) -> String {
     let rounded: f64 = format!("{x:.5e}").parse().unwrap_or(x);
     if rounded == 0.0 || (1e-4..1e9).contains(&rounded.abs()) || !rounded.is_finite() {
         format!("{rounded}")

@@ -130,3 +130,27 @@ test('all roots in a range: three roots of (x-1)(x-2)(x-3), and the chosen one i
   await page.waitForFunction(() => Math.abs(Number(document.querySelector('[data-testid="answer-x"]').dataset.value) - 3) < 1e-9);
   checkClean(log);
 });
+
+test('proven roots in the page: two roots inside one scan spacing, missed by the scan, proven', async () => {
+  const { page, log } = await openPage(browser);
+  await page.click('#mode-custom');
+  // 1 − 2·exp(−((x − 1.0013)/1e-3)²) = 0 at x = 1.0013 ± 1e-3·sqrt(ln 2) (closed form).
+  await page.fill('#custom-text', '1 - 2*exp(-((x - 1.0013)/1e-3)^2) = 0');
+  await page.waitForSelector('#find-x');
+  await page.click('#solve');
+  await page.waitForSelector('#result');
+  await page.fill('#roots-lo', '0');
+  await page.fill('#roots-hi', '2');
+  await page.click('#roots-scan');
+  await page.waitForFunction(() => /No root between/.test(document.querySelector('#roots-body').textContent));
+  await page.click('#roots-prove');
+  await page.waitForSelector('#roots-body .roots-list li');
+  const texts = await page.locator('#roots-body .roots-list li .mono').allTextContents();
+  assert.equal(texts.length, 2, texts.join(' | '));
+  const d = 1e-3 * Math.sqrt(Math.log(2));
+  const xs = texts.map((t) => Number(t.replace(/^\d+\.\s*/, '').replace('×10', 'e').replace(/[⁰-⁹⁻]+/g, (m) => m.replace(/[⁰¹²³⁴⁵⁶⁷⁸⁹⁻]/g, (c) => '0123456789-'['⁰¹²³⁴⁵⁶⁷⁸⁹⁻'.indexOf(c)]))));
+  close(xs[0], 1.0013 - d, 1e-9, 'lower root');
+  close(xs[1], 1.0013 + d, 1e-9, 'upper root');
+  assert.match(await page.locator('#roots-body').textContent(), /proven/);
+  checkClean(log);
+});
