@@ -293,10 +293,13 @@ fn a_templates_outputs_come_in_the_units_asked_for() {
 fn a_scans_limits_are_worded_in_the_unknowns_unit() {
     // x in mm scanned from 0 to 400 mm at 400 samples: the range and the spacing (400/399
     // mm, arithmetic) are written in mm, not in SI metres.
-    let p = problem(r#"{"equations": "x^2 = a", "knowns": {"a": 0.01}, "units": {"x": "mm", "a": "m^2"}, "unknown": "x"}"#);
+    let p = problem(
+        r#"{"equations": "x^2 = a", "knowns": {"a": 0.01}, "units": {"x": "mm", "a": "m^2"}, "unknown": "x"}"#,
+    );
     let r = p.roots(0.0, 400.0, &RootsOptions::default()).unwrap();
     assert!(
-        r.limits.starts_with("Scanned 0 to 400 mm at 400 evenly spaced samples, 1.00251 mm apart."),
+        r.limits
+            .starts_with("Scanned 0 to 400 mm at 400 evenly spaced samples, 1.00251 mm apart."),
         "{}",
         r.limits
     );
