@@ -282,6 +282,43 @@ function abortError(signal, partial, what = "sweep") {
   return err;
 }
 
+/**
+ * Runs a chunked job of the core (a sweep, Monte Carlo trials): `step(size)` advances it
+ * and says {finished, progress}; onProgress gets the progress after every chunk; the event
+ * loop runs between chunks, whose size aims at about SWEEP_SLICE_MS unless `chunk` is
+ * given; an aborted signal throws abortError with `partial()`. The core's handle is freed
+ * at the end either way.
+ */
+async function inChunks(run, { signal, onProgress, chunk }, first, what, partial, step) {
+  let size = chunk ?? first;
+  try {
+    for (;;) {
+      const started = Date.now();
+      const { finished, progress } = step(size);
+      if (onProgress !== undefined) {
+        try {
+          onProgress(progress);
+        } catch (e) {
+          throw callbackThrew(e, "onProgress");
+        }
+      }
+      if (finished) return;
+      if (chunk === undefined) {
+        const took = Math.max(Date.now() - started, 0.5);
+        size = Math.min(MAX_SWEEP_CHUNK, Math.max(1, Math.round((size * SWEEP_SLICE_MS) / took)));
+      }
+      await yieldToEventLoop();
+      if (signal?.aborted) throw abortError(signal, partial(), what);
+    }
+  } finally {
+    try {
+      run.free();
+    } catch {
+      // An instance that stopped on an internal error cannot free; nothing is lost.
+    }
+  }
+}
+
 /** Appends a chunk's points to the sweep so far. */
 function appendSweep(sofar, part) {
   if (sofar === null) return part;
@@ -361,40 +398,16 @@ export class Problem {
    * holds the points done (or null).
    */
   async sweep(spec, control) {
-    const { signal, onProgress, chunk } = readControl(control);
+    const ctl = readControl(control);
     const h = this.#handle();
-    if (signal?.aborted) throw abortError(signal, null);
+    if (ctl.signal?.aborted) throw abortError(ctl.signal, null);
     const run = guarded(() => h.startSweep(spec));
     let sofar = null;
-    let size = chunk ?? SWEEP_CHUNK;
-    try {
-      for (;;) {
-        const started = Date.now();
-        const part = guarded(() => run.advance(size));
-        sofar = appendSweep(sofar, part);
-        if (onProgress !== undefined) {
-          try {
-            onProgress({ done: sofar.done, points: sofar.points });
-          } catch (e) {
-            throw callbackThrew(e, "onProgress");
-          }
-        }
-        if (sofar.done >= sofar.points) return sofar;
-        if (chunk === undefined) {
-          // Aim at a slice of about SWEEP_SLICE_MS per chunk.
-          const took = Math.max(Date.now() - started, 0.5);
-          size = Math.min(MAX_SWEEP_CHUNK, Math.max(1, Math.round((size * SWEEP_SLICE_MS) / took)));
-        }
-        await yieldToEventLoop();
-        if (signal?.aborted) throw abortError(signal, sofar);
-      }
-    } finally {
-      try {
-        run.free();
-      } catch {
-        // An instance that stopped on an internal error cannot free; nothing is lost.
-      }
-    }
+    await inChunks(run, ctl, SWEEP_CHUNK, "sweep", () => sofar, (size) => {
+      sofar = appendSweep(sofar, guarded(() => run.advance(size)));
+      return { finished: sofar.done >= sofar.points, progress: { done: sofar.done, points: sofar.points } };
+    });
+    return sofar;
   }
 
   /**
@@ -406,38 +419,18 @@ export class Problem {
    * result (without the Monte Carlo part).
    */
   async uncertainty(opts = {}, control) {
-    const { signal, onProgress, chunk } = readControl(control);
+    const ctl = readControl(control);
     const h = this.#handle();
-    if (signal?.aborted) throw abortError(signal, null, "uncertainty");
+    if (ctl.signal?.aborted) throw abortError(ctl.signal, null, "uncertainty");
     const run = guarded(() => h.startUncertainty(opts));
-    let size = chunk ?? 200;
-    try {
-      for (;;) {
-        if (guarded(() => run.finished)) return guarded(() => run.report());
-        const started = Date.now();
-        const done = guarded(() => run.advance(size));
-        if (onProgress !== undefined) {
-          try {
-            onProgress({ done, trials: guarded(() => run.trials) });
-          } catch (e) {
-            throw callbackThrew(e, "onProgress");
-          }
-        }
-        if (chunk === undefined) {
-          const took = Math.max(Date.now() - started, 0.5);
-          size = Math.min(MAX_SWEEP_CHUNK, Math.max(1, Math.round((size * SWEEP_SLICE_MS) / took)));
-        }
-        if (guarded(() => run.finished)) return guarded(() => run.report());
-        await yieldToEventLoop();
-        if (signal?.aborted) throw abortError(signal, guarded(() => run.report()), "uncertainty");
-      }
-    } finally {
-      try {
-        run.free();
-      } catch {
-        // An instance that stopped on an internal error cannot free; nothing is lost.
-      }
-    }
+    let report = null;
+    await inChunks(run, ctl, 200, "uncertainty", () => guarded(() => run.report()), (size) => {
+      const done = guarded(() => run.advance(size));
+      const finished = guarded(() => run.finished);
+      if (finished) report = guarded(() => run.report());
+      return { finished, progress: { done, trials: guarded(() => run.trials) } };
+    });
+    return report;
   }
 
   /** Releases the compiled problem now (optional; a sweep under way keeps its own). */
