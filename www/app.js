@@ -23,6 +23,8 @@ import * as external from './external.js';
 import { renderSaved, saveCurrent, importSaved } from './saved.js';
 import { applyState, templateState, loadFromHash } from './link.js';
 import { wireRecord, stampRecord } from './record.js';
+import { loadOwn, refreshOwn, exportOwn, importOwn } from './own-templates.js';
+import { wireOwnForm, editOwn } from './own-form.js';
 
 function solve() {
   const err = byId('solve-error');
@@ -81,6 +83,8 @@ function pickTemplate(id) {
 
 Object.assign(hooks, {
   solve,
+  pickTemplate,
+  editOwn,
   markStale,
   renderStart,
   renderSweepInputs,
@@ -179,6 +183,9 @@ function wire() {
     }
   });
   wireRecord();
+  wireOwnForm();
+  byId('export-own').addEventListener('click', exportOwn);
+  byId('import-own').addEventListener('change', importOwn);
   window.addEventListener('hashchange', () => {
     if (location.hash === app.lastWritten) return;
     if (loadFromHash() === 'ready') solveIfReady();
@@ -212,6 +219,8 @@ async function boot() {
     /* without the table, histories stay in SI units and say so */
   }
   app.nav = buildCatalogueNav(byId('template-groups'), byId('search-empty'), app.templates, pickTemplate);
+  loadOwn();
+  refreshOwn();
   probe.marks.catalogue = performance.now();
   wire();
   const { items, problems } = loadSaved();

@@ -52,13 +52,16 @@ export function normalizeTemplate(t) {
   };
 }
 
+/** The catalogue's group of one's own templates (own-templates.js), listed first. */
+export const OWN_FIELD = 'My templates';
+
 export function groupByField(templates) {
   const groups = new Map();
   for (const t of templates) {
     if (!groups.has(t.field)) groups.set(t.field, []);
     groups.get(t.field).push(t);
   }
-  return [...groups.entries()].sort((a, b) => a[0].localeCompare(b[0]));
+  return [...groups.entries()].sort((a, b) => (b[0] === OWN_FIELD) - (a[0] === OWN_FIELD) || a[0].localeCompare(b[0]));
 }
 
 function matches(t, words) {

@@ -10,12 +10,15 @@ import { renderSetup } from './setup.js';
 import { hideResults } from './result.js';
 import { clearSweep, renderSweepInputs } from './sweep.js';
 import { restoreKept, renderExternal } from './external.js';
+import { adoptOwn } from './own-templates.js';
 
 /** Applies a state; anything that does not fit the current catalogue is named. */
 export function applyState(st, source, earlier = []) {
   const { state, problems: found } = validateState(st.v === undefined ? { ...st, v: 1 } : st);
   const problems = [...earlier, ...found];
   if (state.mode === 'template') {
+    // A calculation with an own template carries it: read through the core's check first.
+    if (state.own) state.template = adoptOwn(state.own, problems) ?? state.template;
     if (!app.byId.get(state.template)) {
       if (state.template) problems.push(`the template "${state.template.slice(0, 80)}" is not in this catalogue`);
       state.template = app.templates[0]?.id ?? '';
@@ -33,6 +36,8 @@ export function applyState(st, source, earlier = []) {
         state.unknown = tt.defaultUnknown;
       }
     }
+    if (tt?.own) state.own = tt.raw;
+    else delete state.own;
   }
   if (state.mode === 'external' && state.start.kind === 'default') state.start.kind = 'guesses';
   // Who prepares and checks records stays from one calculation to the next.

@@ -127,6 +127,30 @@ function outputUnits(t) {
   return out;
 }
 
+/** An own template is solved as its equation set with units: every known in the unit
+ *  chosen, the answer in the unit asked for; the template's guesses and bounds (in its own
+ *  unit) go with the unknown when the answer is asked in that unit. */
+function ownRequest(t, base) {
+  const S = app.S;
+  const knowns = {};
+  const units = {};
+  for (const [s, { value, unit }] of Object.entries(readKnowns())) {
+    knowns[s] = value;
+    if (unit) units[s] = unit;
+  }
+  const v = t.variables.find((x) => x.symbol === S.unknown);
+  const ru = chosenUnit(S.unknown);
+  if (ru) units[S.unknown] = ru;
+  const { guesses, bracket, ...rest } = base;
+  const unknown = { name: S.unknown };
+  const own = ru === v.unit;
+  if (guesses ?? (own && v.guesses)) unknown.guesses = guesses ?? v.guesses;
+  if (own && v.bounds) unknown.bounds = v.bounds;
+  const spec = { equations: t.equations, knowns, units, unknowns: [unknown] };
+  const opts = { history: true, sensitivities: true, ...rest };
+  return { kind: 'equation', own: true, spec, opts, req: { ...spec, ...opts }, start: { guesses: unknown.guesses } };
+}
+
 /** Builds the request for the current calculation. Throws FormError for bad input. */
 export function buildRequest() {
   const S = app.S;
@@ -135,6 +159,7 @@ export function buildRequest() {
     const t = currentTemplate();
     if (!t) throw new FormError('Choose a template from the catalogue first.');
     if (!S.unknown) throw new FormError('Choose the quantity to find under "Solve for".');
+    if (t.own) return ownRequest(t, base);
     // Every known with its unit; a list input (cash flows) as a list of numbers in its unit.
     const values = Object.fromEntries(Object.entries(readKnowns()).map(([symbol, { value, unit }]) => [symbol, unit ? { value, unit } : value]));
     if (t.list) values[t.list.symbol] = readList(t);

@@ -135,15 +135,15 @@ export function presentResult(built, r) {
   const t = currentTemplate();
   let answers;
   let xLabel;
-  const unit = built.kind === 'template' ? prettyUnit(r.unit) : '';
+  const unit = prettyUnit(r.unit ?? '');
   if (built.kind === 'template') {
     answers = [{ symbol: S.unknown, value: r.value, unit }];
     xLabel = `${S.unknown}${unit ? ` (${unit})` : ''}`;
   } else {
-    answers = Object.entries(r.unknowns).map(([symbol, value]) => ({ symbol, value, unit: '' }));
-    xLabel = unknownList()[0] ?? 'x';
+    answers = Object.entries(r.unknowns).map(([symbol, value]) => ({ symbol, value, unit: prettyUnit(r.units?.[symbol] ?? '') }));
+    xLabel = `${unknownList()[0] ?? 'x'}${unit ? ` (${unit})` : ''}`;
   }
-  const residualLabel = built.kind === 'template' ? 'Residual (left − right side of the equation, SI units)' : 'Residual (left − right side, in your units)';
+  const residualLabel = built.kind === 'template' || built.own ? 'Residual (left − right side of the equation, SI units)' : 'Residual (left − right side, in your units)';
   showResult(r, {
     answers,
     outputs: r.outputs ?? [],
@@ -159,7 +159,7 @@ export function presentResult(built, r) {
   if (probe.firstSolveMs === null) probe.firstSolveMs = performance.now();
   // Every x of the result (history, bracket, roots) is already in the unit chosen.
   const history = r.history ?? [];
-  const shortLabel = built.kind === 'template' ? 'residual (left − right, SI)' : RESIDUAL;
+  const shortLabel = built.kind === 'template' || built.own ? 'residual (left − right, SI)' : RESIDUAL;
   if (history.length) showHistory(history, sampleCurve(app.lastResult?.problem, history), xLabel, shortLabel);
   else showSystemHistory(r.systemHistory, Object.keys(r.unknowns ?? {}), '‖residual‖');
   showSensitivities(r.sensitivities, meaningOf);

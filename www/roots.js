@@ -78,7 +78,7 @@ export function scanRoots(proven = false) {
     body.append(h('p', { class: 'error-text' }, e.message));
     return;
   }
-  const unit = last.built.kind === 'template' ? prettyUnit(last.r.unit) : '';
+  const unit = prettyUnit(last.r.unit ?? '');
   const u = unit ? ` ${unit}` : '';
   byId('roots').classList.toggle('has-roots', found.roots.length > 0);
   if (found.roots.length === 0) body.append(h('p', null, `No root between ${fmt(lo)} and ${fmt(hi)}${u}.`));

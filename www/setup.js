@@ -257,7 +257,9 @@ export function renderStart() {
     const g = Array.isArray(v?.guesses) && v.guesses.length === 2 ? v.guesses : null;
     const gu = prettyUnit(v?.unit);
     const fallback = g ? `the template's guesses for ${sym}, ${fmt(Number(g[0]))} and ${fmt(Number(g[1]))}${gu ? ` ${gu}` : ''}` : `the template's guesses for ${sym}`;
-    hint = starter
+    // An own template's guesses go with the answer only in the template's unit.
+    if (v?.raw?.name !== undefined && !(g && chosenUnit(sym) === v.unit)) hint = `The solver starts ${sym} from its own default points; give two guesses${inUnit ? ` in${inUnit}` : ''} if it finds no root.`;
+    else hint = starter
       ? `The solver starts from ${starter.label}, an explicit approximation of ${sym} (${starter.source}), and from a point just beside it; where that is undefined it starts from ${fallback}.`
       : `The solver starts from ${fallback}.`;
   } else if (system) hint = 'The solver starts every unknown of the set from 1 (then 1.1), in the units of your equations.';

@@ -4,10 +4,14 @@
 // Problem reports is already in the unit chosen on the page; nothing here converts units,
 // scans or samples on its own.
 
-import { problem as compile, Stepper, checkEquation as check, version as toolVersion } from '../dist/pkg/tacit.js';
+import { problem as compile, Stepper, checkEquation as check, version as toolVersion, checkOwnTemplate, readOwnTemplates, writeOwnTemplates } from '../dist/pkg/tacit.js';
 
 export const version = () => toolVersion;
 export const checkEquation = (text) => check(text);
+// Own templates: read, checked and written by the core (data only; nothing in them runs).
+export const checkOwn = (t) => checkOwnTemplate(t);
+export const readOwn = (text) => readOwnTemplates(text);
+export const writeOwn = (list) => writeOwnTemplates(list);
 
 /** Compiles and solves a built request ({ spec, opts }). Returns { r, problem }; the
  *  problem is kept for the plot, the roots and the sweep, and freed by the next solve.

@@ -141,6 +141,12 @@ export function validateState(data) {
       }
     }
   }
+  // An own template carried with the calculation: kept as data here, read through the
+  // core's check before it is used (own-templates.js).
+  if (data.own !== undefined) {
+    if (data.own && typeof data.own === 'object' && !Array.isArray(data.own)) st.own = data.own;
+    else problems.push('own is not a template');
+  }
   if (data.unsolved !== undefined) {
     if (typeof data.unsolved === 'boolean') st.unsolved = data.unsolved;
     else problems.push('unsolved is not true or false');
@@ -153,6 +159,7 @@ export function compactState(st) {
   const d = defaultState();
   const out = { v: STATE_VERSION, mode: st.mode };
   if (st.mode === 'template') out.template = st.template;
+  if (st.mode === 'template' && st.own) out.own = st.own;
   if (st.mode === 'custom') out.equations = st.equations;
   if (st.mode !== 'external') {
     out.values = st.values;

@@ -7,6 +7,7 @@ import { validateState, compactState } from './state.js';
 
 export const SAVED_KEY = 'tacit.saved.v1';
 export const EXTERNAL_KEY = 'tacit.external.v1';
+export const OWN_KEY = 'tacit.own-templates.v1';
 const FILE_FORMAT = 'tacit-saved-list';
 
 function store() {
@@ -185,5 +186,26 @@ export function writeExternal(record) {
   } catch {
     /* storage full: the fragment still holds the record */
     return null;
+  }
+}
+
+/** The stored text of My templates: null when none, undefined when storage is off. */
+export function readOwnStored() {
+  const s = store();
+  return s ? read(s, OWN_KEY) : undefined;
+}
+
+/** Copies the stored text of My templates aside; returns the backup key or null. */
+export const backupOwnStored = (text) => backup(OWN_KEY, text);
+
+/** Writes My templates (the exchange file's text); returns an error message, or null. */
+export function writeOwnStored(text) {
+  const s = store();
+  if (!s) return 'storage is not available in this browser, so My templates last only while this page is open';
+  try {
+    s.setItem(OWN_KEY, text);
+    return null;
+  } catch (e) {
+    return `My templates could not be stored (${e.name}: ${e.name === 'QuotaExceededError' ? 'storage is full' : 'this browser refuses storage here'}), so changes last only while this page is open`;
   }
 }

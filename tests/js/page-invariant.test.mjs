@@ -10,8 +10,9 @@ const www = new URL("../../www/", import.meta.url);
 const files = (await readdir(www)).filter((f) => f.endsWith(".js"));
 
 // What the page may use of the package: loading, the catalogue and units tables for the
-// form, the text check for the editor, the Problem, the Stepper, the version.
-const ALLOWED = new Set(["init", "version", "catalogue", "units", "checkEquation", "problem", "Stepper"]);
+// form, the text check for the editor, the Problem, the Stepper, the version, and the
+// check, reading and writing of own templates (data, no numbers).
+const ALLOWED = new Set(["init", "version", "catalogue", "units", "checkEquation", "problem", "Stepper", "checkOwnTemplate", "readOwnTemplates", "writeOwnTemplates"]);
 
 // Signs of numerics done in the page: solver entries that bypass the Problem, unit
 // conversion, solves with a budget of two used as function evaluations, sign-change scans.
