@@ -18,7 +18,7 @@ export function applyState(st, source, earlier = []) {
   const problems = [...earlier, ...found];
   if (state.mode === 'template') {
     // A calculation with an own template carries it: read through the core's check first.
-    if (state.own) state.template = adoptOwn(state.own, problems) ?? state.template;
+    if (state.own) state.template = adoptOwn(state.own, problems, source) ?? state.template;
     if (!app.byId.get(state.template)) {
       if (state.template) problems.push(`the template "${state.template.slice(0, 80)}" is not in this catalogue`);
       state.template = app.templates[0]?.id ?? '';

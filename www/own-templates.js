@@ -11,8 +11,8 @@ import { checkOwn, readOwn, writeOwn } from './solver.js';
 import { readOwnStored, writeOwnStored, backupOwnStored } from './storage.js';
 
 app.own = [];
-// Templates from links for this visit: { t, id } (id is `link:…` when one of My templates
-// has the same id and other content).
+// Templates from links and saved calculations for this visit: { t, id, from } (id is
+// `link:…` when one of My templates has the same id and other content).
 app.ownLinked = [];
 
 const sameTemplate = (a, b) => JSON.stringify(a) === JSON.stringify(b);
@@ -28,7 +28,7 @@ function unitsLike(u) {
 }
 
 /** The page's view of an own template (the shape normalizeTemplate gives a bundled one). */
-export function ownToPage(t, id = t.id, linked = false) {
+export function ownToPage(t, id = t.id, from = '') {
   const vars = t.variables.map((v) => ({
     symbol: v.name, meaning: v.meaning ?? '', dimension: '', unit: v.unit ?? '', units: unitsLike(v.unit),
     example: v.value ?? undefined, guesses: v.guesses ?? undefined, bounds: v.bounds ?? undefined, raw: v,
@@ -36,8 +36,8 @@ export function ownToPage(t, id = t.id, linked = false) {
   const validity = t.validity ?? '';
   const note = validity.replace(CAUTION, '').trim();
   return {
-    id, own: true, linked, raw: t,
-    title: linked ? `${t.title} (from a link)` : t.title,
+    id, own: true, linked: Boolean(from), raw: t,
+    title: from ? `${t.title} (from ${from})` : t.title,
     field: OWN_FIELD,
     summary: t.description ?? '',
     equations: t.equations,
@@ -99,7 +99,7 @@ function storeOwn() {
 /** Puts My templates (and those from links) in the catalogue and the list beside it. */
 export function refreshOwn() {
   for (const [id, t] of app.byId) if (t.own) app.byId.delete(id);
-  const pages = [...app.own.map((t) => ownToPage(t)), ...app.ownLinked.map((l) => ownToPage(l.t, l.id, true))];
+  const pages = [...app.own.map((t) => ownToPage(t)), ...app.ownLinked.map((l) => ownToPage(l.t, l.id, l.from))];
   for (const t of pages) app.byId.set(t.id, t);
   app.nav = buildCatalogueNav(byId('template-groups'), byId('search-empty'), [...app.templates, ...pages], (id) => hooks.pickTemplate?.(id));
   app.nav.select(app.S.mode === 'template' ? app.S.template : null);
@@ -110,7 +110,7 @@ export function refreshOwn() {
 /** A calculation that carries an own template: the template read through the core's
  *  check and registered for this visit. Returns the catalogue id to open, or null (the
  *  reason pushed to problems; nothing stored changes). */
-export function adoptOwn(data, problems) {
+export function adoptOwn(data, problems, source = 'link') {
   let t;
   try {
     t = checkOwn(data);
@@ -123,7 +123,7 @@ export function adoptOwn(data, problems) {
   const known = app.ownLinked.find((l) => sameTemplate(l.t, t));
   if (known) return known.id;
   const id = mine ? `link:${t.id}` : t.id;
-  app.ownLinked = [...app.ownLinked.filter((l) => l.id !== id), { t, id }];
+  app.ownLinked = [...app.ownLinked.filter((l) => l.id !== id), { t, id, from: source.startsWith('saved') ? 'a saved calculation' : 'a link' }];
   refreshOwn();
   return id;
 }

@@ -143,10 +143,35 @@ test('linked: a fresh browser opens the link with its template; Keep stores it; 
   assert.match(notice, /variables\[0\]\.unit/);
   assert.equal(await ownStored(c.page), before, 'storage unchanged');
   assert.equal(await c.page.isVisible(`#own-list li[data-own="${ID}"]`), true);
+  // Another version under the same id: used for this visit beside yours, which stays.
+  state.own.variables[0].unit = 'm';
+  state.own.title = 'Booster pump curve, revised';
+  const d = await openPage(browser, { context: b.ctx, hash: fragmentFor(state) });
+  await d.page.waitForSelector('[data-testid="answer-Q"]');
+  assert.match(await d.page.textContent('#calc-title'), /revised \(from a link\)/);
+  assert.equal(await d.page.locator(`#own-list li[data-own="${ID}"], #own-list li[data-own="link:${ID}"]`).count(), 2);
+  assert.equal(await ownStored(d.page), before, 'storage unchanged');
+  checkClean(d.log);
   checkClean(a.log);
   checkClean(b.log);
   checkClean(c.log);
   await b.ctx.close();
+});
+
+test('a saved calculation carries its template: deleted from My templates, it still opens', async () => {
+  const { page, log } = await openPage(browser);
+  await makeTemplate(page);
+  const q1 = await solveAndRead(page, 'Q');
+  await page.fill('#save-name', 'Pump duty, hilltop tank');
+  await page.click('#save-form button[type=submit]');
+  await page.click(`#own-list li[data-own="${ID}"] button[aria-label^="Delete"]`);
+  await page.click('#own-list .confirm button.danger');
+  assert.equal(await page.locator('#own-list li').count(), 0);
+  await page.click('#saved-list button[aria-label^="Open"]');
+  await page.waitForFunction(() => /from a saved calculation/.test(document.getElementById('calc-title').textContent));
+  await page.waitForSelector('[data-testid="answer-Q"]');
+  assert.equal(Number(await page.getAttribute('[data-testid="answer-Q"]', 'data-value')), q1);
+  checkClean(log);
 });
 
 test('exported and imported: twice adds it once; a bad file gives the core message and changes nothing', async () => {
@@ -231,6 +256,8 @@ test('looked at: made, saved, linked and printed at laptop and phone widths, axe
       assert.equal(await page.isVisible('#own-form-card'), false);
       assert.equal(await page.isVisible('#caution'), true, 'the caution is printed');
       await page.pdf({ path: join(process.env.TACIT_SHOTS || ARTIFACTS, 'own-template-print.pdf'), format: 'A4', printBackground: true });
+      await page.setViewportSize({ width: 794, height: 1123 });
+      await lookShot(page, 'own-print');
     }
     checkClean(log);
     await ctx.close();
