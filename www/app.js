@@ -23,6 +23,7 @@ import * as external from './external.js';
 import { renderSaved, saveCurrent, importSaved } from './saved.js';
 import { applyState, templateState, loadFromHash } from './link.js';
 import { wireRecord, stampRecord } from './record.js';
+import { wireUncertainty } from './uncertainty.js';
 
 function solve() {
   const err = byId('solve-error');
@@ -179,6 +180,7 @@ function wire() {
     }
   });
   wireRecord();
+  wireUncertainty();
   window.addEventListener('hashchange', () => {
     if (location.hash === app.lastWritten) return;
     if (loadFromHash() === 'ready') solveIfReady();
