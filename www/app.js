@@ -25,6 +25,7 @@ import { applyState, templateState, loadFromHash } from './link.js';
 import { wireRecord, stampRecord } from './record.js';
 import { loadOwn, refreshOwn, exportOwn, importOwn } from './own-templates.js';
 import { wireOwnForm, editOwn } from './own-form.js';
+import { wireUncertainty } from './uncertainty.js';
 
 function solve() {
   const err = byId('solve-error');
@@ -186,6 +187,7 @@ function wire() {
   wireOwnForm();
   byId('export-own').addEventListener('click', exportOwn);
   byId('import-own').addEventListener('change', importOwn);
+  wireUncertainty();
   window.addEventListener('hashchange', () => {
     if (location.hash === app.lastWritten) return;
     if (loadFromHash() === 'ready') solveIfReady();

@@ -4,6 +4,7 @@
 import { byId } from './dom.js';
 import { parseNumber } from './format.js';
 import { app, currentTemplate, currentVariables, unknownList, chosenUnit, FormError, readNumber } from './ctx.js';
+import { withUncertainties } from './uncertainty.js';
 
 const TOL_NAMES = { xRel: 'Relative step tolerance', xAbs: 'Absolute step tolerance', fAbs: 'Residual tolerance', maxEvals: 'Evaluation budget' };
 
@@ -169,6 +170,7 @@ export function buildRequest() {
     const ou = outputUnits(t);
     if (Object.keys(ou).length) spec.outputUnits = ou;
     const opts = { history: true, sensitivities: true, ...base };
+    withUncertainties(spec, opts, Object.keys(values).filter((s) => s !== t.list?.symbol), 1);
     return { kind: 'template', spec, opts, req: { ...spec, ...opts } };
   }
   if (S.mode === 'custom') {
@@ -184,6 +186,7 @@ export function buildRequest() {
     if (unknowns.length === 1 && (guesses || bracket)) spec = [{ name: unknowns[0], guesses: guesses ?? bracket }];
     const opts = { history: true, sensitivities: true, ...rest };
     const problemSpec = { equations: S.equations, knowns, unknowns: spec };
+    withUncertainties(problemSpec, opts, Object.keys(knowns), unknowns.length);
     return { kind: 'equation', spec: problemSpec, opts, req: { ...problemSpec, ...opts }, start: { guesses, bracket } };
   }
   throw new FormError('This mode has no Solve button.');

@@ -12,6 +12,7 @@ import { settingsFacts } from './request.js';
 import { updateAnswerLines } from './setup.js';
 import { showHistory, showSystemHistory, RESIDUAL } from './history.js';
 import { showSensitivities } from './sensitivity.js';
+import { showUncertainty, hideUncertainty, staleUncertainty } from './uncertainty.js';
 
 
 const CERT_WORDS = {
@@ -164,17 +165,20 @@ export function presentResult(built, r) {
   else showSystemHistory(r.systemHistory, Object.keys(r.unknowns ?? {}), '‖residual‖');
   showSensitivities(r.sensitivities, meaningOf);
   hooks.showRootsCard?.(built, r);
+  showUncertainty(built, r, S.unknown.split(',')[0]);
   for (const id of ['history', 'sensitivity', 'roots']) byId(id).classList.remove('stale');
   updateAnswerLines();
 }
 
 export function hideResults() {
   for (const id of ['result', 'history', 'sensitivity']) byId(id).hidden = true;
+  hideUncertainty();
 }
 
 /** The inputs changed after the last solve: every result shown says so until the next. */
 export function markStale() {
   updateAnswerLines();
+  staleUncertainty();
   if (!app.lastResult || !app.S.unsolved) return;
   const card = byId('result');
   if (card.classList.contains('stale')) return;

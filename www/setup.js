@@ -7,6 +7,7 @@ import { equationToMathML, symbolMathML } from './mathml.js';
 import { app, hooks, currentTemplate, currentVariables, unknownList, variableOf, chosenUnit, edited } from './ctx.js';
 import { runCustomCheck } from './custom.js';
 import { startKind } from './request.js';
+import { uncertaintyCell, answerUncertaintyCell, updateAnswerUncertainty } from './uncertainty.js';
 
 export function showEquation(text) {
   const box = clear(byId('equation'));
@@ -172,6 +173,7 @@ export function renderVarsTable() {
           h('td', { class: 'meaning' }, v.meaning),
           h('td', { class: 'val' }, h('output', { id: `answer-line-${sym}`, class: 'answer-line', 'aria-live': 'polite' })),
           h('td', { class: 'unit' }, unitCell),
+          answerUncertaintyCell(sym),
         ),
       );
       continue;
@@ -194,6 +196,7 @@ export function renderVarsTable() {
         h('td', { class: 'meaning' }, v.meaning),
         h('td', { class: 'val' }, input, h('span', { class: 'cell-error', id: `err-${sym}` })),
         h('td', { class: 'unit' }, unitCell),
+        uncertaintyCell(sym),
       ),
     );
   }
@@ -229,6 +232,7 @@ export function updateAnswerLines() {
     out.textContent = text;
     row.dataset.state = state;
   }
+  updateAnswerUncertainty();
 }
 
 export function renderStart() {

@@ -19,6 +19,10 @@ export function defaultState() {
     template: '',
     equations: '',
     values: {},
+    // Standard uncertainties of knowns as typed: { symbol: { v: text, pct: true when a percentage } }.
+    unc: {},
+    // Monte Carlo trials of the uncertainty ('' for the default).
+    trials: '',
     unknown: '',
     resultUnit: '',
     start: { kind: 'default', a: '', b: '' },
@@ -76,6 +80,18 @@ export function validateState(data) {
       }
     }
   }
+  if (data.unc !== undefined) {
+    if (!data.unc || typeof data.unc !== 'object' || Array.isArray(data.unc)) problems.push('unc is not a table');
+    else {
+      for (const [sym, e] of Object.entries(data.unc).slice(0, 200)) {
+        const v = SYMBOL_RE.test(sym) && e && typeof e === 'object' ? str(e.v ?? '', 64, `unc.${sym}.v`, problems) : undefined;
+        if (v === undefined || (e.pct !== undefined && typeof e.pct !== 'boolean')) { problems.push(`unc has an entry that is not an uncertainty`); continue; }
+        st.unc[sym] = { v, pct: e.pct === true };
+      }
+    }
+  }
+  const tr = str(data.trials, 16, 'trials', problems);
+  if (tr !== undefined) st.trials = tr;
   const unk = str(data.unknown, 2000, 'unknown', problems);
   if (unk !== undefined) {
     if (unk === '' || unk.split(',').every((u) => SYMBOL_RE.test(u))) st.unknown = unk;
@@ -164,6 +180,9 @@ export function compactState(st) {
   if (st.mode !== 'external') {
     out.values = st.values;
     out.unknown = st.unknown;
+    const unc = Object.entries(st.unc).filter(([, e]) => e.v.trim());
+    if (unc.length) out.unc = Object.fromEntries(unc);
+    if (st.trials) out.trials = st.trials;
     if (st.resultUnit) out.resultUnit = st.resultUnit;
     if (st.sweep.input) out.sweep = st.sweep;
   }

@@ -10,6 +10,16 @@ export function isTrap(e) {
   return e instanceof WebAssembly.RuntimeError || /unreachable|RuntimeError|internal-panic|instance-aborted/.test(`${e && e.code} ${e && e.message}`);
 }
 
+/** Runs the uncertainty of a problem ({ spec, opts }), its Monte Carlo trials in chunks. */
+export async function runUncertaintyJob(job, progress = () => {}) {
+  const p = problem(job.spec);
+  try {
+    return await p.uncertainty(job.opts, { onProgress: ({ done, trials }) => progress(done, trials) });
+  } finally {
+    p.free();
+  }
+}
+
 /** Runs the job; progress(done, total) is called along the way. */
 export async function runSweepJob(job, progress = () => {}) {
   const p = problem(job.spec);

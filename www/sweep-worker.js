@@ -4,12 +4,13 @@
 //
 // Messages in:  { type: 'init', wasm: ArrayBuffer }
 //               { type: 'sweep', id, job }   job as for runSweepJob (sweep-run.js)
+//               { type: 'uncertainty', id, job }   job as for runUncertaintyJob
 //               { type: 'trap-drill', id }
 // Messages out: { type: 'ready' } | { type: 'progress', id, done, total }
 //               { type: 'result', id, result, ms } | { type: 'error', id, message, code, trapped }
 
 import { init } from '../dist/pkg/tacit.js';
-import { runSweepJob, isTrap } from './sweep-run.js';
+import { runSweepJob, runUncertaintyJob, isTrap } from './sweep-run.js';
 
 let ready = null;
 
@@ -38,11 +39,11 @@ self.addEventListener('message', async (ev) => {
     }
     return;
   }
-  if (msg.type === 'sweep') {
+  if (msg.type === 'sweep' || msg.type === 'uncertainty') {
     try {
       await ready;
       const started = performance.now();
-      const result = await runSweepJob(msg.job, (done, total) => postMessage({ type: 'progress', id: msg.id, done, total }));
+      const result = await (msg.type === 'sweep' ? runSweepJob : runUncertaintyJob)(msg.job, (done, total) => postMessage({ type: 'progress', id: msg.id, done, total }));
       postMessage({ type: 'result', id: msg.id, result, ms: performance.now() - started });
     } catch (e) {
       postMessage({ type: 'error', id: msg.id, message: String(e && e.message), code: e && e.code, trapped: isTrap(e) });

@@ -301,7 +301,8 @@ test('the look: the unknown is chosen above the table and shown as the answer li
   const { page, log } = await openPage(browser);
   await page.waitForSelector('[data-testid="answer-f"]');
   assert.equal(await page.locator('#vars input[type=radio], #vars input[type=checkbox]').count(), 0);
-  assert.equal(await page.locator('#vars thead th').count(), 4);
+  // Symbol, meaning, value, unit, and the standard uncertainty (issue 13).
+  assert.equal(await page.locator('#vars thead th').count(), 5);
   assert.equal(await page.getAttribute('#find-f', 'aria-pressed'), 'true');
   assert.equal(await page.locator('#vars tfoot tr[data-symbol="f"]').count(), 1);
   await chooseUnknown(page, 'Re');
